@@ -1,0 +1,160 @@
+using System.Runtime.InteropServices;
+
+namespace Highs.Native;
+
+/// <summary>Owns one HiGHS instance; frees it when the handle is released.</summary>
+internal sealed class HighsHandle : SafeHandle
+{
+    public HighsHandle()
+        : base(IntPtr.Zero, ownsHandle: true)
+    {
+        SetHandle(NativeMethods.Highs_create());
+        if (handle == IntPtr.Zero)
+        {
+            throw new InvalidOperationException("Highs_create returned null.");
+        }
+    }
+
+    public override bool IsInvalid => handle == IntPtr.Zero;
+
+    protected override bool ReleaseHandle()
+    {
+        NativeMethods.Highs_destroy(handle);
+        return true;
+    }
+}
+
+/// <summary>
+/// A thin, fit-agnostic session over one HiGHS instance: pass a model, set options, run, read results.
+/// Not thread-safe; use one per solve.
+/// </summary>
+public sealed class HighsSolver : IDisposable
+{
+    private const int StatusError = -1;
+    private readonly HighsHandle _handle = new();
+    private HighsModel? _model;
+
+    public HighsSolver()
+    {
+        var size = NativeMethods.Highs_getSizeofHighsInt(_handle.DangerousGetHandle());
+        if (size != sizeof(int))
+        {
+            throw new InvalidOperationException($"libhighs uses a {size}-byte HighsInt; this binding expects 4.");
+        }
+    }
+
+    /// <summary>The library's version string, e.g. "1.12.0".</summary>
+    public static string Version => Marshal.PtrToStringUTF8(NativeMethods.Highs_version()) ?? "unknown";
+
+    private IntPtr H => _handle.DangerousGetHandle();
+
+    public void SetOption(string name, bool value) => Check(NativeMethods.Highs_setBoolOptionValue(H, name, value ? 1 : 0), name);
+
+    public void SetOption(string name, int value) => Check(NativeMethods.Highs_setIntOptionValue(H, name, value), name);
+
+    public void SetOption(string name, double value) => Check(NativeMethods.Highs_setDoubleOptionValue(H, name, value), name);
+
+    public void SetOption(string name, string value) => Check(NativeMethods.Highs_setStringOptionValue(H, name, value), name);
+
+    public unsafe void PassModel(HighsModel model)
+    {
+        ArgumentNullException.ThrowIfNull(model);
+        Validate(model);
+        var inf = NativeMethods.Highs_getInfinity(H);
+        var colLower = Clamp(model.ColLower, inf);
+        var colUpper = Clamp(model.ColUpper, inf);
+        var rowLower = Clamp(model.RowLower, inf);
+        var rowUpper = Clamp(model.RowUpper, inf);
+        int[]? integrality = model.Integer?.Select(b => b ? 1 : 0).ToArray();
+        int qNz = model.QValue?.Length ?? 0;
+        // Empty arrays still need a non-null pointer for HiGHS; pad with one element.
+        var aIndex = model.AIndex.Length == 0 ? [0] : model.AIndex;
+        var aValue = model.AValue.Length == 0 ? [0.0] : model.AValue;
+        var rl = rowLower.Length == 0 ? [0.0] : rowLower;
+        var ru = rowUpper.Length == 0 ? [0.0] : rowUpper;
+        fixed (double* cost = model.ColCost, cl = colLower, cu = colUpper, rlp = rl, rup = ru, av = aValue)
+        fixed (int* ast = model.AStart, ai = aIndex)
+        fixed (int* qs = model.QStart, qi = model.QIndex)
+        fixed (double* qv = model.QValue)
+        fixed (int* integ = integrality)
+        {
+            var status = NativeMethods.Highs_passModel(
+                H, model.NumCol, model.NumRow, model.AValue.Length, qNz,
+                aFormat: 1, qFormat: 1, sense: 1, model.Offset,
+                cost, cl, cu, rlp, rup, ast, ai, av,
+                qNz > 0 ? qs : null, qNz > 0 ? qi : null, qNz > 0 ? qv : null, integ);
+            Check(status, "Highs_passModel");
+        }
+
+        _model = model;
+    }
+
+    public HighsResult Run()
+    {
+        var model = _model ?? throw new InvalidOperationException("PassModel first.");
+        var runStatus = NativeMethods.Highs_run(H);
+        var modelStatus = (HighsModelStatus)NativeMethods.Highs_getModelStatus(H);
+        var colValue = new double[model.NumCol];
+        var colDual = new double[model.NumCol];
+        var rowValue = new double[model.NumRow];
+        var rowDual = new double[model.NumRow];
+        unsafe
+        {
+            fixed (double* cv = colValue, cd = colDual, rv = rowValue, rd = rowDual)
+            {
+                NativeMethods.Highs_getSolution(H, cv, cd, rv, rd);
+            }
+        }
+
+        NativeMethods.Highs_getIntInfoValue(H, "primal_solution_status", out var primalStatus);
+        NativeMethods.Highs_getIntInfoValue(H, "dual_solution_status", out var dualStatus);
+        NativeMethods.Highs_getIntInfoValue(H, "simplex_iteration_count", out var simplex);
+        NativeMethods.Highs_getIntInfoValue(H, "ipm_iteration_count", out var ipm);
+        NativeMethods.Highs_getIntInfoValue(H, "qp_iteration_count", out var qp);
+        NativeMethods.Highs_getDoubleInfoValue(H, "mip_gap", out var mipGap);
+        // HiGHS solution status 2 means "feasible".
+        return new HighsResult(
+            runStatus, modelStatus, NativeMethods.Highs_getObjectiveValue(H),
+            colValue, colDual, rowValue, rowDual, NativeMethods.Highs_getRunTime(H),
+            simplex, ipm, qp, mipGap, primalStatus == 2, dualStatus == 2);
+    }
+
+    /// <summary>Writes the passed model with HiGHS's own writer; the extension picks the format (.mps, .lp).</summary>
+    public void WriteModel(string path) => Check(NativeMethods.Highs_writeModel(H, path), "Highs_writeModel");
+
+    public void Dispose() => _handle.Dispose();
+
+    private static double[] Clamp(double[] values, double inf)
+    {
+        var result = new double[values.Length];
+        for (var i = 0; i < values.Length; i++)
+        {
+            result[i] = Math.Clamp(values[i], -inf, inf);
+        }
+
+        return result;
+    }
+
+    private static void Validate(HighsModel m)
+    {
+        if (m.ColCost.Length != m.NumCol || m.ColLower.Length != m.NumCol || m.ColUpper.Length != m.NumCol
+            || m.AStart.Length != m.NumCol + 1 || m.RowLower.Length != m.NumRow || m.RowUpper.Length != m.NumRow
+            || m.AIndex.Length != m.AValue.Length)
+        {
+            throw new ArgumentException("Model arrays do not match its dimensions.", nameof(m));
+        }
+
+        if (m.QValue is not null && (m.QStart is null || m.QIndex is null || m.QStart.Length != m.NumCol + 1))
+        {
+            throw new ArgumentException("Hessian arrays do not match the number of columns.", nameof(m));
+        }
+    }
+
+    private static void Check(int status, string what)
+    {
+        if (status == StatusError)
+        {
+            throw new InvalidOperationException($"HiGHS rejected {what}.");
+        }
+    }
+}

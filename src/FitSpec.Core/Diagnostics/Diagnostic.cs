@@ -100,10 +100,6 @@ public static class NameSuggester
             {
                 var cost = a[i - 1] == b[j - 1] ? 0 : 1;
                 cur[j] = Math.Min(Math.Min(cur[j - 1] + 1, prev[j] + 1), prev[j - 1] + cost);
-                if (i > 1 && j > 1 && a[i - 1] == b[j - 2] && a[i - 2] == b[j - 1])
-                {
-                    cur[j] = Math.Min(cur[j], prev[j - 1]);
-                }
             }
 
             (prev, cur) = (cur, prev);

@@ -1,0 +1,133 @@
+using FitSpec.Data;
+using FitSpec.Expressions;
+
+namespace FitSpec.Design;
+
+/// <summary>A coefficient as the user sees it (raw basis), and the term that made it.</summary>
+public sealed record Coefficient(string Name, string TermKey, bool IsConstant);
+
+/// <summary>One entry of a sparse row.</summary>
+public readonly record struct Entry(int Index, double Value);
+
+/// <summary>
+/// The numbers a fit is made of. X holds the internal basis (polynomials centred and scaled), one array per
+/// internal coefficient θ; RawX holds the raw basis (the same arrays where a term is not transformed). The
+/// user's raw coefficients are β = M θ, with M given row by row in RawFromInternal (identity rows for plain
+/// terms). Everything the user writes about coefficients is over β.
+/// </summary>
+public sealed record Design(
+    Table Table,
+    double[] Y,
+    double[]? W,
+    double[][] X,
+    double[][] RawX,
+    IReadOnlyList<Coefficient> Coefficients,
+    IReadOnlyList<Entry[]> RawFromInternal,
+    IReadOnlyList<string> Inputs,
+    bool ConstantInSpan,
+    RawBasis Basis)
+{
+    public int Rows => Y.Length;
+
+    public int P => Coefficients.Count;
+
+    public double Weight(int i) => W is null ? 1.0 : W[i];
+
+    /// <summary>β = M θ.</summary>
+    public double[] ToRaw(ReadOnlySpan<double> theta)
+    {
+        var beta = new double[P];
+        for (var j = 0; j < P; j++)
+        {
+            double s = 0;
+            foreach (var e in RawFromInternal[j])
+            {
+                s += e.Value * theta[e.Index];
+            }
+
+            beta[j] = s;
+        }
+
+        return beta;
+    }
+
+    /// <summary>A row over β written over θ: a'M.</summary>
+    public Entry[] ToInternal(ReadOnlySpan<double> rawRow)
+    {
+        var acc = new double[P];
+        var touched = false;
+        for (var j = 0; j < P; j++)
+        {
+            if (rawRow[j] == 0)
+            {
+                continue;
+            }
+
+            touched = true;
+            foreach (var e in RawFromInternal[j])
+            {
+                acc[e.Index] += rawRow[j] * e.Value;
+            }
+        }
+
+        if (!touched)
+        {
+            return [];
+        }
+
+        var list = new List<Entry>();
+        for (var k = 0; k < P; k++)
+        {
+            if (acc[k] != 0)
+            {
+                list.Add(new Entry(k, acc[k]));
+            }
+        }
+
+        return [.. list];
+    }
+
+    /// <summary>Fitted values X θ in the internal basis.</summary>
+    public double[] Fitted(ReadOnlySpan<double> theta)
+    {
+        var f = new double[Rows];
+        for (var k = 0; k < P; k++)
+        {
+            var t = theta[k];
+            if (t == 0)
+            {
+                continue;
+            }
+
+            var col = X[k];
+            for (var i = 0; i < f.Length; i++)
+            {
+                f[i] += t * col[i];
+            }
+        }
+
+        return f;
+    }
+}
+
+/// <summary>
+/// Evaluates the raw basis functions (one per coefficient, in order) at a point, with first and second
+/// derivatives in one chosen input — what value and shape constraints are made of.
+/// </summary>
+public sealed class RawBasis
+{
+    private readonly IReadOnlyList<Func<Func<string, Jet>, IEnumerable<Jet>>> _terms;
+
+    internal RawBasis(IReadOnlyList<Func<Func<string, Jet>, IEnumerable<Jet>>> terms)
+    {
+        _terms = terms;
+    }
+
+    /// <summary>φ_j at the point; <paramref name="variable"/> (if any) carries derivative 1.</summary>
+    public Jet[] At(IReadOnlyDictionary<string, double> point, string? variable)
+    {
+        ArgumentNullException.ThrowIfNull(point);
+        Jet Input(string name) => name == variable ? Jet.Variable(point[name]) : Jet.Constant(point[name]);
+        return _terms.SelectMany(t => t(Input)).ToArray();
+    }
+}

@@ -1,0 +1,275 @@
+using FitSpec.Data;
+using FitSpec.Diagnostics;
+using FitSpec.Expressions;
+using FitSpec.Spec;
+
+namespace FitSpec.Design;
+
+/// <summary>Stage 3: table + compiled model → <see cref="Design"/> (response, weights, basis columns).</summary>
+public static class DesignBuilder
+{
+    public static Design Build(FitSpecDocument spec, CompiledModel model, Table table)
+    {
+        ArgumentNullException.ThrowIfNull(spec);
+        ArgumentNullException.ThrowIfNull(model);
+        ArgumentNullException.ThrowIfNull(table);
+        var errors = new List<Diagnostic>();
+        var n = table.RowCount;
+        double[] Column(string name) => table.Columns[name];
+
+        var y = Finite(ExpressionEvaluator.Evaluate(model.Response.Root!, Column, n), table, "response", spec.Model.Response.Value, errors);
+        double[]? w = null;
+        if (model.Weight is { Root: { } wRoot })
+        {
+            w = ExpressionEvaluator.Evaluate(wRoot, Column, n);
+            for (var i = 0; i < n; i++)
+            {
+                if (!(w[i] > 0) || !double.IsFinite(w[i]))
+                {
+                    errors.Add(new Diagnostic(table.DisplayPath, table.Lines[i], null, spec.Data.Weight!.Value, $"weight must be a finite number > 0, got {w[i]}"));
+                    if (errors.Count > 20)
+                    {
+                        break;
+                    }
+                }
+            }
+        }
+
+        var hasConstant = model.Terms.Any(t => t.Expression is { IsConstant: true } && t.Spec is ExpressionTerm);
+        var coefficients = new List<Coefficient>();
+        var internalCols = new List<double[]>();
+        var rawCols = new List<double[]>();
+        var rawMap = new List<List<Entry>>();
+        var basis = new List<Func<Func<string, Jet>, IEnumerable<Jet>>>();
+        var inputs = new List<string>();
+        int? constantIndex = null;
+        double constantValue = 1;
+        var shifts = new List<(int First, int Degree, double Center, double Scale)>();
+
+        foreach (var term in model.Terms)
+        {
+            switch (term.Spec)
+            {
+                case ExpressionTerm et:
+                {
+                    var root = term.Expression!.Root!;
+                    var isConstant = term.Expression.IsConstant;
+                    double[] col;
+                    if (isConstant)
+                    {
+                        var value = ExpressionEvaluator.EvaluateScalar(root, _ => double.NaN);
+                        if (!double.IsFinite(value) || value == 0)
+                        {
+                            var at = et.Expression.Pos;
+                            errors.Add(new Diagnostic(at.File, at.Line, at.Column, $"model.terms.{et.Key}", $"constant term '{et.Expression.Value}' must be a finite non-zero number"));
+                            value = 1;
+                        }
+
+                        col = new double[n];
+                        Array.Fill(col, value);
+                        if (constantIndex is null)
+                        {
+                            constantIndex = coefficients.Count;
+                            constantValue = value;
+                        }
+                    }
+                    else
+                    {
+                        col = Finite(ExpressionEvaluator.Evaluate(root, Column, n), table, et.Key, et.Expression.Value, errors);
+                        inputs.AddRange(term.Expression.Columns);
+                    }
+
+                    Add(et.Key, et.Key, isConstant, col, col);
+                    basis.Add(input => [ExpressionEvaluator.EvaluateJet(root, input)]);
+                    break;
+                }
+
+                case PolynomialTerm pt:
+                {
+                    var root = term.Expression!.Root!;
+                    inputs.AddRange(term.Expression.Columns);
+                    var u = Finite(ExpressionEvaluator.Evaluate(root, Column, n), table, pt.Key, pt.Input.Value, errors);
+                    AddPolynomial(pt, u, hasConstant);
+                    var degree = pt.Degree;
+                    basis.Add(input =>
+                    {
+                        var x = ExpressionEvaluator.EvaluateJet(root, input);
+                        var powers = new Jet[degree];
+                        var power = x;
+                        for (var k = 0; k < degree; k++)
+                        {
+                            powers[k] = power;
+                            power *= x;
+                        }
+
+                        return powers;
+                    });
+                    break;
+                }
+
+                case ColumnsTerm ct:
+                {
+                    var matched = Glob.Filter(table.Header, ct.Glob.Value).ToList();
+                    if (matched.Count == 0)
+                    {
+                        var at = ct.Glob.Pos;
+                        errors.Add(new Diagnostic(at.File, at.Line, at.Column, $"model.terms.{ct.Key}", $"no data column matches '{ct.Glob.Value}'; columns are: {string.Join(", ", table.Header)}"));
+                    }
+
+                    foreach (var name in matched)
+                    {
+                        var col = Finite(table.Columns[name], table, name, name, errors);
+                        Add(name, ct.Key, false, col, col);
+                        inputs.Add(name);
+                        var captured = name;
+                        basis.Add(input => [input(captured)]);
+                    }
+
+                    break;
+                }
+
+                case SplineTerm st:
+                {
+                    var at = st.Pos;
+                    errors.Add(new Diagnostic(at.File, at.Line, at.Column, $"model.terms.{st.Key}", "term kind 'spline' is not supported yet"));
+                    break;
+                }
+            }
+        }
+
+        var names = coefficients.GroupBy(c => c.Name, StringComparer.Ordinal).Where(g => g.Count() > 1).Select(g => g.Key).ToList();
+        foreach (var dup in names)
+        {
+            var at = spec.Model.Pos;
+            errors.Add(new Diagnostic(at.File, at.Line, at.Column, "model.terms", $"coefficient name '{dup}' is produced by more than one term; rename a term"));
+        }
+
+        if (errors.Count > 0)
+        {
+            throw new FitSpecException(errors);
+        }
+
+        // A centred polynomial's constant part, Σ θ_k (-c/s)^k, belongs to the (first) constant term.
+        foreach (var (first, d, c, s) in shifts)
+        {
+            for (var k = 1; k <= d; k++)
+            {
+                rawMap[constantIndex!.Value].Add(new Entry(first + k - 1, Math.Pow(-c / s, k) / constantValue));
+            }
+        }
+
+        var design = new Design(
+            table, y, w, [.. internalCols], [.. rawCols], coefficients,
+            rawMap.Select(r => r.ToArray()).ToList(),
+            inputs.Distinct(StringComparer.Ordinal).ToList(),
+            ConstantInSpan: constantIndex is not null || SpanCheck.ContainsConstant([.. rawCols]),
+            new RawBasis(basis));
+        return design;
+
+        void Add(string name, string key, bool isConstant, double[] internalCol, double[] rawCol)
+        {
+            rawMap.Add([new Entry(coefficients.Count, 1.0)]);
+            coefficients.Add(new Coefficient(name, key, isConstant));
+            internalCols.Add(internalCol);
+            rawCols.Add(rawCol);
+        }
+
+        // Internally z = (u - c)/s with z^k columns (centred only when a constant term can absorb the shift);
+        // the raw coefficients follow from expanding ((u - c)/s)^k binomially.
+        void AddPolynomial(PolynomialTerm pt, double[] u, bool center)
+        {
+            double c = 0;
+            if (center && n > 0)
+            {
+                c = (u.Min() + u.Max()) / 2;
+            }
+
+            var s = 0.0;
+            foreach (var v in u)
+            {
+                s = Math.Max(s, Math.Abs(v - c));
+            }
+
+            if (s == 0 || !double.IsFinite(s))
+            {
+                s = 1;
+            }
+
+            var first = coefficients.Count;
+            var d = pt.Degree;
+            for (var k = 1; k <= d; k++)
+            {
+                var z = new double[n];
+                var raw = new double[n];
+                for (var i = 0; i < n; i++)
+                {
+                    var zi = (u[i] - c) / s;
+                    z[i] = IntPow(zi, k);
+                    raw[i] = IntPow(u[i], k);
+                }
+
+                coefficients.Add(new Coefficient($"{pt.Key}{k}", pt.Key, false));
+                internalCols.Add(z);
+                rawCols.Add(raw);
+                rawMap.Add([]);
+            }
+
+            // β_j (raw power j) = Σ_{k≥j} θ_k s^-k C(k,j) (-c)^(k-j); the j = 0 part goes to the constant term.
+            for (var j = 1; j <= d; j++)
+            {
+                var row = new List<Entry>();
+                for (var k = j; k <= d; k++)
+                {
+                    var m = Binomial(k, j) * Math.Pow(-c, k - j) / Math.Pow(s, k);
+                    if (m != 0)
+                    {
+                        row.Add(new Entry(first + k - 1, m));
+                    }
+                }
+
+                rawMap[first + j - 1] = row;
+            }
+
+            if (c != 0)
+            {
+                shifts.Add((first, d, c, s));
+            }
+        }
+    }
+
+    private static double IntPow(double x, int k)
+    {
+        var r = 1.0;
+        for (var i = 0; i < k; i++)
+        {
+            r *= x;
+        }
+
+        return r;
+    }
+
+    private static double Binomial(int n, int k)
+    {
+        double r = 1;
+        for (var i = 1; i <= k; i++)
+        {
+            r = r * (n - k + i) / i;
+        }
+
+        return r;
+    }
+
+    private static double[] Finite(double[] values, Table table, string field, string text, List<Diagnostic> errors)
+    {
+        for (var i = 0; i < values.Length; i++)
+        {
+            if (!double.IsFinite(values[i]))
+            {
+                errors.Add(new Diagnostic(table.DisplayPath, table.Lines[i], null, field, $"'{text}' is not a finite number on this row ({values[i]})"));
+                break;
+            }
+        }
+
+        return values;
+    }
+}

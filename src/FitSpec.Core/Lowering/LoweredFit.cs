@@ -1,0 +1,39 @@
+using FitSpec.Design;
+using FitSpec.Spec;
+
+namespace FitSpec.Lowering;
+
+/// <summary>How one spec item was lowered, for the report's lowering table.</summary>
+public sealed record LoweringNote(string Item, string Label, string How);
+
+/// <summary>
+/// A user constraint after lowering: which rows (or variable bounds) carry it, so that activity and duals
+/// can be reported against the user's own text. Scale converts a bound on θ back to the user's units.
+/// </summary>
+public sealed record LoweredConstraint(
+    int Index,
+    ConstraintSpec Spec,
+    IReadOnlyList<int> Rows,
+    IReadOnlyList<(int Var, double Scale)> VarBounds,
+    string? Grid,
+    ShapeCheck? Shape);
+
+/// <summary>What the verification needs to re-check a shape constraint on a finer grid.</summary>
+public sealed record ShapeCheck(ShapeKind Kind, string Input, double From, double To, int GridPoints, IReadOnlyDictionary<string, double> At);
+
+/// <summary>
+/// The unconstrained least-squares form: minimise Σ w (y - Xθ)² + Σ (ridge row · θ)². Ridge row k is
+/// √λ_k times row RidgeRaw[k].Raw of M, i.e. √λ_k β_j in the user's coefficients.
+/// </summary>
+public sealed record LeastSquaresForm(IReadOnlyList<Entry[]> RidgeRows, IReadOnlyList<(int Raw, double Sqrt)> RidgeRaw);
+
+/// <summary>Stage 4's output: the program, and the map from its rows back to the user's items.</summary>
+public sealed record LoweredFit(
+    FitSpecDocument Spec,
+    Design.Design Design,
+    FitProgram Program,
+    ProblemClass Class,
+    IReadOnlyList<LoweredConstraint> Constraints,
+    IReadOnlyList<LoweringNote> Notes,
+    LeastSquaresForm? ClosedForm,
+    IReadOnlyList<IReadOnlyList<int>> PenaltyTargets);

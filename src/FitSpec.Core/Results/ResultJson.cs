@@ -1,0 +1,238 @@
+using System.Text;
+using System.Text.Encodings.Web;
+using System.Text.Json;
+using FitSpec.Verification;
+
+namespace FitSpec.Results;
+
+/// <summary>The machine-readable record, &lt;name&gt;.result.json: fixed key order, non-finite numbers as null.</summary>
+public static class ResultJson
+{
+    public static string Write(FitResult r)
+    {
+        ArgumentNullException.ThrowIfNull(r);
+        using var buffer = new MemoryStream();
+        using (var w = new Utf8JsonWriter(buffer, new JsonWriterOptions { Indented = true, Encoder = JavaScriptEncoder.UnsafeRelaxedJsonEscaping }))
+        {
+            w.WriteStartObject();
+            w.WriteNumber("fitspec", 1);
+            w.WriteString("name", r.Name);
+            w.WriteString("status", r.Status);
+            Str(w, "status_detail", r.StatusDetail);
+            Str(w, "title", r.Title);
+            Str(w, "description", r.Description);
+            if (r.Problem is { } p)
+            {
+                w.WriteStartObject("problem");
+                w.WriteString("class", p.Class);
+                w.WriteNumber("variables", p.Variables);
+                w.WriteNumber("rows", p.Rows);
+                w.WriteNumber("nonzeros", p.Nonzeros);
+                w.WriteString("solver", p.Solver);
+                w.WriteString("method", p.Method);
+                w.WriteString("formulation", p.Formulation);
+                Num(w, "solve_seconds", Math.Round(p.SolveSeconds, 6));
+                w.WriteNumber("iterations", p.Iterations);
+                w.WriteEndObject();
+            }
+
+            Num(w, "objective", r.Objective);
+            w.WriteStartObject("coefficients");
+            foreach (var c in r.Coefficients)
+            {
+                Num(w, c.Name, c.Value);
+            }
+
+            w.WriteEndObject();
+            if (r.Data is { } d)
+            {
+                w.WriteStartObject("data");
+                w.WriteString("file", d.File);
+                w.WriteString("sha256", d.Sha256);
+                w.WriteNumber("rows", d.Rows);
+                w.WriteNumber("used", d.Used);
+                w.WriteNumber("dropped_missing", d.DroppedMissing);
+                w.WriteNumber("dropped_filter", d.DroppedFilter);
+                w.WriteEndObject();
+            }
+
+            if (r.Metrics is { } m)
+            {
+                w.WriteStartObject("metrics");
+                w.WriteNumber("observations", m.Observations);
+                Num(w, "rmse", m.Rmse);
+                Num(w, "mae", m.Mae);
+                Num(w, "max_abs_residual", m.MaxAbsResidual);
+                Num(w, "r2", m.R2);
+                Num(w, "residual_sd", m.ResidualSd);
+                w.WriteEndObject();
+            }
+
+            w.WriteStartArray("constraints");
+            foreach (var c in r.Constraints)
+            {
+                WriteConstraint(w, c);
+            }
+
+            w.WriteEndArray();
+            w.WriteStartArray("acceptance");
+            foreach (var a in r.Acceptance)
+            {
+                w.WriteStartObject();
+                w.WriteString("rule", a.Rule);
+                Num(w, "value", a.Value);
+                w.WriteBoolean("passed", a.Passed);
+                Str(w, "error", a.Error);
+                w.WriteEndObject();
+            }
+
+            w.WriteEndArray();
+            if (r.Verification is { } v)
+            {
+                WriteVerification(w, v);
+            }
+
+            if (r.Statement is { } s)
+            {
+                w.WriteStartObject("statement");
+                w.WriteString("response", s.Response);
+                w.WriteString("model", s.Model);
+                w.WriteString("loss", s.Loss);
+                w.WriteString("loss_formula", s.LossFormula);
+                Strings(w, "penalties", s.Penalties);
+                Strings(w, "constraints", s.Constraints);
+                Str(w, "weight", s.Weight);
+                Str(w, "filter", s.Filter);
+                w.WriteEndObject();
+            }
+
+            w.WriteStartArray("largest_residuals");
+            foreach (var lr in r.LargestResiduals)
+            {
+                w.WriteStartObject();
+                w.WriteNumber("row", lr.Row);
+                w.WriteNumber("line", lr.Line);
+                Num(w, "observed", lr.Observed);
+                Num(w, "fitted", lr.Fitted);
+                Num(w, "residual", lr.Residual);
+                w.WriteEndObject();
+            }
+
+            w.WriteEndArray();
+            w.WriteStartArray("lowering");
+            foreach (var n in r.Lowering)
+            {
+                w.WriteStartObject();
+                w.WriteString("item", n.Item);
+                w.WriteString("label", n.Label);
+                w.WriteString("how", n.How);
+                w.WriteEndObject();
+            }
+
+            w.WriteEndArray();
+            var pv = r.Provenance;
+            w.WriteStartObject("provenance");
+            w.WriteString("spec_sha256", pv.SpecSha256);
+            Str(w, "data_sha256", pv.DataSha256);
+            w.WriteString("tool_version", pv.ToolVersion);
+            w.WriteString("solver", pv.Solver);
+            w.WriteString("runtime", pv.Runtime);
+            w.WriteString("os", pv.OperatingSystem);
+            w.WriteEndObject();
+            w.WriteStartArray("errors");
+            foreach (var e in r.Errors)
+            {
+                w.WriteStartObject();
+                w.WriteString("file", e.File);
+                Int(w, "line", e.Line);
+                Int(w, "column", e.Column);
+                Str(w, "field", e.Field);
+                w.WriteString("message", e.Message);
+                w.WriteEndObject();
+            }
+
+            w.WriteEndArray();
+            w.WriteEndObject();
+        }
+
+        return Encoding.UTF8.GetString(buffer.ToArray()) + "\n";
+    }
+
+    private static void WriteConstraint(Utf8JsonWriter w, ConstraintCheck c)
+    {
+        w.WriteStartObject();
+        w.WriteString("label", c.Label);
+        w.WriteString("kind", c.Kind);
+        w.WriteBoolean("active", c.Active);
+        Num(w, "dual", c.Dual);
+        Num(w, "violation", c.Violation);
+        Num(w, "slack", c.Slack);
+        Str(w, "grid", c.Grid);
+        Int(w, "fine_grid_points", c.FineGridPoints);
+        Num(w, "fine_grid_worst_violation", c.FineGridWorst);
+        w.WriteEndObject();
+    }
+
+    private static void WriteVerification(Utf8JsonWriter w, Verification.Verification v)
+    {
+        w.WriteStartObject("verification");
+        Num(w, "objective_recomputed", v.ObjectiveRecomputed);
+        Num(w, "objective_program", v.SolverObjective);
+        Num(w, "objective_relative_difference", v.ObjectiveRelativeDifference);
+        Num(w, "max_constraint_violation", v.MaxConstraintViolation);
+        Num(w, "dual_objective", v.DualObjective);
+        Num(w, "duality_gap", v.DualityGap);
+        Num(w, "dual_residual", v.DualResidual);
+        Num(w, "normal_equation_residual", v.Stationarity);
+        w.WriteBoolean("passed", v.Passed);
+        Strings(w, "failures", v.Failures);
+        w.WriteEndObject();
+    }
+
+    private static void Strings(Utf8JsonWriter w, string name, IReadOnlyList<string> items)
+    {
+        w.WriteStartArray(name);
+        foreach (var s in items)
+        {
+            w.WriteStringValue(s);
+        }
+
+        w.WriteEndArray();
+    }
+
+    private static void Str(Utf8JsonWriter w, string name, string? value)
+    {
+        if (value is null)
+        {
+            w.WriteNull(name);
+        }
+        else
+        {
+            w.WriteString(name, value);
+        }
+    }
+
+    private static void Int(Utf8JsonWriter w, string name, int? value)
+    {
+        if (value is { } v)
+        {
+            w.WriteNumber(name, v);
+        }
+        else
+        {
+            w.WriteNull(name);
+        }
+    }
+
+    private static void Num(Utf8JsonWriter w, string name, double? value)
+    {
+        if (value is { } v && double.IsFinite(v))
+        {
+            w.WriteNumber(name, v);
+        }
+        else
+        {
+            w.WriteNull(name);
+        }
+    }
+}

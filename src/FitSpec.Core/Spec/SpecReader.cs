@@ -1,0 +1,412 @@
+using System.Text.RegularExpressions;
+using FitSpec.Diagnostics;
+using YamlDotNet.Core;
+using YamlDotNet.RepresentationModel;
+
+namespace FitSpec.Spec;
+
+/// <summary>The result of reading a spec: the document when it is valid, and every error found.</summary>
+public sealed record SpecReadResult(FitSpecDocument? Document, string Name, IReadOnlyList<Diagnostic> Errors, byte[] Bytes);
+
+/// <summary>Stage 1: spec file → typed, validated <see cref="FitSpecDocument"/>. Reads no data.</summary>
+public static partial class SpecReader
+{
+    private static readonly string[] TopKeys =
+        ["fitspec", "name", "title", "description", "data", "model", "loss", "penalties", "constraints", "solve", "report"];
+
+    private static readonly string[] DataKeys = ["path", "sqlite", "query", "filter", "weight", "missing"];
+    private static readonly string[] ModelKeys = ["response", "terms"];
+    private static readonly string[] SolveKeys = ["method", "time-limit"];
+    private static readonly string[] ReportKeys = ["formats", "accept", "templates"];
+
+    /// <summary>Upper bound on spec size; a fit spec is a few kilobytes.</summary>
+    public const int MaxSpecBytes = 1 << 20;
+
+    public static SpecReadResult Read(string path)
+    {
+        ArgumentNullException.ThrowIfNull(path);
+        var name = DefaultName(path);
+        byte[] bytes;
+        try
+        {
+            var info = new FileInfo(path);
+            if (info.Exists && info.Length > MaxSpecBytes)
+            {
+                return new(null, name, [new Diagnostic(path, null, null, null, $"spec file is larger than {MaxSpecBytes} bytes")], []);
+            }
+
+            bytes = File.ReadAllBytes(path);
+        }
+        catch (Exception e) when (e is IOException or UnauthorizedAccessException)
+        {
+            return new(null, name, [new Diagnostic(path, null, null, null, $"cannot read spec file: {e.Message}")], []);
+        }
+
+        return Parse(path, bytes);
+    }
+
+    /// <summary>Parses spec bytes as if read from <paramref name="path"/> (used by tests and by Read).</summary>
+    public static SpecReadResult Parse(string path, byte[] bytes)
+    {
+        ArgumentNullException.ThrowIfNull(bytes);
+        var errors = new List<Diagnostic>();
+        var fields = new YamlFields(path, errors);
+        var name = DefaultName(path);
+        YamlNode? root;
+        try
+        {
+            root = LoadSingleDocument(path, bytes, errors);
+        }
+        catch (YamlException e)
+        {
+            errors.Add(new Diagnostic(path, (int)e.Start.Line, (int)e.Start.Column, null, $"invalid YAML: {CleanYamlMessage(e)}"));
+            return new(null, name, errors, bytes);
+        }
+        catch (Exception e) when (e is InvalidOperationException or ArgumentException or System.Text.DecoderFallbackException)
+        {
+            // The YAML library reports some malformed input (unclosed flow collections, duplicate keys,
+            // invalid UTF-8) without a position.
+            var what = e is System.Text.DecoderFallbackException ? "the file is not valid UTF-8 text" : $"invalid YAML ({e.Message}); check brackets, quotes and duplicate keys";
+            errors.Add(new Diagnostic(path, 1, 1, null, what));
+            return new(null, name, errors, bytes);
+        }
+
+        if (root is null)
+        {
+            return new(null, name, errors, bytes);
+        }
+
+        if (root is not YamlMappingNode top)
+        {
+            fields.Error(root, null, "a fit spec must be a mapping with keys such as 'fitspec', 'data', 'model'");
+            return new(null, name, errors, bytes);
+        }
+
+        var doc = ReadTop(fields, top, path, ref name);
+        return new(errors.Count == 0 ? doc : null, name, errors, bytes);
+    }
+
+    private static YamlNode? LoadSingleDocument(string path, byte[] bytes, List<Diagnostic> errors)
+    {
+        var text = new System.Text.UTF8Encoding(false, true).GetString(bytes);
+        var stream = new YamlStream();
+        stream.Load(new StringReader(text));
+        if (stream.Documents.Count == 0)
+        {
+            errors.Add(new Diagnostic(path, 1, 1, null, "the spec file is empty; start with 'fitspec: 1'"));
+            return null;
+        }
+
+        if (stream.Documents.Count > 1)
+        {
+            var second = stream.Documents[1].RootNode;
+            errors.Add(new Diagnostic(path, (int)second.Start.Line, (int)second.Start.Column, null, "one fit per file: found a second YAML document"));
+            return null;
+        }
+
+        var root = stream.Documents[0].RootNode;
+        RejectTags(root, path, errors);
+        return errors.Count == 0 ? root : null;
+    }
+
+    // Custom tags could ask for types the spec language does not have; refuse them all.
+    private static void RejectTags(YamlNode node, string path, List<Diagnostic> errors)
+    {
+        var stack = new Stack<YamlNode>();
+        var seen = new HashSet<YamlNode>(ReferenceEqualityComparer.Instance);
+        stack.Push(node);
+        while (stack.Count > 0)
+        {
+            var n = stack.Pop();
+            if (!seen.Add(n))
+            {
+                continue;
+            }
+
+            if (!n.Tag.IsEmpty && !n.Tag.IsNonSpecific)
+            {
+                errors.Add(new Diagnostic(path, (int)n.Start.Line, (int)n.Start.Column, null, $"YAML tags such as '{n.Tag.Value}' are not allowed in a fit spec"));
+            }
+
+            foreach (var child in n.AllNodes.Skip(1))
+            {
+                if (child is YamlMappingNode or YamlSequenceNode)
+                {
+                    stack.Push(child);
+                }
+                else if (!child.Tag.IsEmpty && !child.Tag.IsNonSpecific && seen.Add(child))
+                {
+                    errors.Add(new Diagnostic(path, (int)child.Start.Line, (int)child.Start.Column, null, $"YAML tags such as '{child.Tag.Value}' are not allowed in a fit spec"));
+                }
+            }
+        }
+    }
+
+    private static string CleanYamlMessage(YamlException e)
+    {
+        var m = e.Message;
+        // YamlDotNet prefixes its own position, which our FILE:LINE:COL already carries.
+        var idx = m.IndexOf("): ", StringComparison.Ordinal);
+        return idx >= 0 && m.StartsWith('(') ? m[(idx + 3)..] : m;
+    }
+
+    private static FitSpecDocument? ReadTop(YamlFields f, YamlMappingNode top, string path, ref string name)
+    {
+        var e = f.Entries(top, "the spec", TopKeys);
+        if (!e.TryGetValue("fitspec", out var version))
+        {
+            f.Error(top, "fitspec", "missing 'fitspec: 1' (the format version) at the top of the spec");
+        }
+        else if (f.Integer(version.Value, "fitspec") is { } v && v != 1)
+        {
+            f.Error(version.Value, "fitspec", $"unsupported format version {v}; this tool reads version 1");
+        }
+
+        if (e.TryGetValue("name", out var nameNode) && f.Text(nameNode.Value, "name") is { } n)
+        {
+            if (!ValidName().IsMatch(n.Value))
+            {
+                f.Error(nameNode.Value, "name", $"name '{n.Value}' may use only a-z, 0-9, '.', '_' and '-'");
+            }
+
+            name = n.Value;
+        }
+        else if (!e.ContainsKey("name") && !ValidName().IsMatch(name))
+        {
+            f.Error(top, "name", $"the file name gives the fit name '{name}', which is not of the form [a-z0-9._-]+; add a 'name:' key");
+        }
+
+        var title = e.TryGetValue("title", out var t) ? f.Text(t.Value, "title")?.Value : null;
+        var description = e.TryGetValue("description", out var d) ? f.Text(d.Value, "description")?.Value : null;
+
+        DataSpec? data = null;
+        if (!e.TryGetValue("data", out var dataNode))
+        {
+            f.Error(top, "data", "missing 'data' section (data: {path: file.csv})");
+        }
+        else
+        {
+            data = ReadData(f, dataNode.Value);
+        }
+
+        ModelSpec? model = null;
+        if (!e.TryGetValue("model", out var modelNode))
+        {
+            f.Error(top, "model", "missing 'model' section (model: {response: y, terms: {...}})");
+        }
+        else
+        {
+            model = ReadModel(f, modelNode.Value);
+        }
+
+        var loss = e.TryGetValue("loss", out var lossNode)
+            ? LossReader.Read(f, lossNode.Value)
+            : new LossSpec(LossKind.L2, "l2", null, f.Pos(top));
+        var penalties = e.TryGetValue("penalties", out var p) ? PenaltyReader.Read(f, p.Value) : [];
+        var constraints = e.TryGetValue("constraints", out var c) ? ConstraintReader.Read(f, c.Value) : [];
+        var solve = e.TryGetValue("solve", out var s) ? ReadSolve(f, s.Value) : new SolveSpec(SolveMethod.Auto, null);
+        var report = e.TryGetValue("report", out var r) ? ReadReport(f, r.Value) : DefaultReport;
+
+        if (data is null || model is null || loss is null || solve is null || report is null)
+        {
+            return null;
+        }
+
+        return new FitSpecDocument(path, name, title, description, data, model, loss, penalties, constraints, solve, report);
+    }
+
+    private static ReportSpec DefaultReport => new([ReportFormat.Html, ReportFormat.Md, ReportFormat.Json], [], null);
+
+    private static DataSpec? ReadData(YamlFields f, YamlNode node)
+    {
+        if (f.Mapping(node, "data") is not { } map)
+        {
+            return null;
+        }
+
+        var e = f.Entries(map, "data", DataKeys);
+        SpecText? Get(string key) => e.TryGetValue(key, out var v) ? f.Text(v.Value, $"data.{key}") : null;
+        var path = Get("path");
+        var sqlite = Get("sqlite");
+        var query = Get("query");
+        if (path is null && sqlite is null && !e.ContainsKey("path") && !e.ContainsKey("sqlite"))
+        {
+            f.Error(map, "data.path", "data needs 'path:' (a .csv or .tsv file) or 'sqlite:' with 'query:'");
+        }
+
+        if (path is not null && sqlite is not null)
+        {
+            f.Error(sqlite.Pos, "data.sqlite", "give either 'path:' or 'sqlite:', not both");
+        }
+
+        if (sqlite is not null && query is null)
+        {
+            f.Error(sqlite.Pos, "data.query", "'sqlite:' needs a 'query:' (SELECT ...)");
+        }
+
+        if (query is not null && sqlite is null)
+        {
+            f.Error(query.Pos, "data.query", "'query:' is only used with 'sqlite:'");
+        }
+
+        if (path is not null)
+        {
+            var ext = Path.GetExtension(path.Value).ToLowerInvariant();
+            if (ext is not ".csv" and not ".tsv")
+            {
+                f.Error(path.Pos, "data.path", $"data file '{path.Value}' must end in .csv (comma) or .tsv (tab)");
+            }
+        }
+
+        var missing = MissingPolicy.Error;
+        if (e.TryGetValue("missing", out var m) && f.Text(m.Value, "data.missing") is { } mt)
+        {
+            switch (mt.Value)
+            {
+                case "error":
+                    break;
+                case "drop":
+                    missing = MissingPolicy.Drop;
+                    break;
+                default:
+                    f.Error(mt.Pos, "data.missing", $"data.missing must be 'error' or 'drop', got '{mt.Value}'");
+                    break;
+            }
+        }
+
+        return new DataSpec(path, sqlite, query, Get("filter"), Get("weight"), missing, f.Pos(map));
+    }
+
+    private static ModelSpec? ReadModel(YamlFields f, YamlNode node)
+    {
+        if (f.Mapping(node, "model") is not { } map)
+        {
+            return null;
+        }
+
+        var e = f.Entries(map, "model", ModelKeys);
+        SpecText? response = null;
+        if (!e.TryGetValue("response", out var r))
+        {
+            f.Error(map, "model.response", "missing 'response:' (the measured column or an expression)");
+        }
+        else
+        {
+            response = f.Text(r.Value, "model.response");
+        }
+
+        IReadOnlyList<TermSpec> terms = [];
+        if (!e.TryGetValue("terms", out var t))
+        {
+            f.Error(map, "model.terms", "missing 'terms:' (coefficient name: basis, e.g. b0: 1, b1: x)");
+        }
+        else
+        {
+            terms = TermReader.Read(f, t.Value);
+        }
+
+        return response is null ? null : new ModelSpec(response, terms, f.Pos(map));
+    }
+
+    private static SolveSpec? ReadSolve(YamlFields f, YamlNode node)
+    {
+        if (f.Mapping(node, "solve") is not { } map)
+        {
+            return null;
+        }
+
+        var e = f.Entries(map, "solve", SolveKeys);
+        var method = SolveMethod.Auto;
+        if (e.TryGetValue("method", out var m) && f.Text(m.Value, "solve.method") is { } mt)
+        {
+            method = mt.Value switch
+            {
+                "auto" => SolveMethod.Auto,
+                "qr" => SolveMethod.Qr,
+                "simplex" => SolveMethod.Simplex,
+                "ipm" => SolveMethod.Ipm,
+                _ => Bad(),
+            };
+
+            SolveMethod Bad()
+            {
+                f.Error(mt.Pos, "solve.method", $"solve.method must be auto, qr, simplex or ipm, got '{mt.Value}'{NameSuggester.Hint(mt.Value, ["auto", "qr", "simplex", "ipm"])}");
+                return SolveMethod.Auto;
+            }
+        }
+
+        double? limit = null;
+        if (e.TryGetValue("time-limit", out var tl) && f.Number(tl.Value, "solve.time-limit") is { } seconds)
+        {
+            if (seconds <= 0)
+            {
+                f.Error(tl.Value, "solve.time-limit", $"solve.time-limit must be a positive number of seconds, got {seconds}");
+            }
+
+            limit = seconds;
+        }
+
+        return new SolveSpec(method, limit);
+    }
+
+    private static ReportSpec? ReadReport(YamlFields f, YamlNode node)
+    {
+        if (f.Mapping(node, "report") is not { } map)
+        {
+            return null;
+        }
+
+        var e = f.Entries(map, "report", ReportKeys);
+        var formats = new List<ReportFormat>();
+        if (e.TryGetValue("formats", out var fm) && f.TextList(fm.Value, "report.formats") is { } list)
+        {
+            foreach (var item in list)
+            {
+                ReportFormat? format = item.Value switch
+                {
+                    "html" => ReportFormat.Html,
+                    "md" or "markdown" => ReportFormat.Md,
+                    "json" => ReportFormat.Json,
+                    _ => null,
+                };
+                if (format is { } fmt)
+                {
+                    if (!formats.Contains(fmt))
+                    {
+                        formats.Add(fmt);
+                    }
+                }
+                else
+                {
+                    f.Error(item.Pos, "report.formats", $"unknown report format '{item.Value}'; use html, md or json");
+                }
+            }
+        }
+        else
+        {
+            formats.AddRange(DefaultReport.Formats);
+        }
+
+        var accept = e.TryGetValue("accept", out var a) ? f.TextList(a.Value, "report.accept") ?? [] : [];
+        var templates = e.TryGetValue("templates", out var tp) ? f.Text(tp.Value, "report.templates") : null;
+        return new ReportSpec(formats, accept, templates);
+    }
+
+    /// <summary>The fit name implied by a spec's file name: without .fit.yaml (or .yaml/.yml).</summary>
+    public static string DefaultName(string path)
+    {
+        var file = Path.GetFileName(path ?? "");
+        foreach (var suffix in (string[])[".fit.yaml", ".fit.yml", ".yaml", ".yml"])
+        {
+            if (file.EndsWith(suffix, StringComparison.OrdinalIgnoreCase))
+            {
+                return file[..^suffix.Length];
+            }
+        }
+
+        return file;
+    }
+
+    [GeneratedRegex("^[a-z0-9._-]+$")]
+    private static partial Regex ValidName();
+}

@@ -1,0 +1,70 @@
+using FitSpec.Reporting;
+using FitSpec.Results;
+
+namespace FitSpec.Tests.Reporting;
+
+public sealed class ReportFunctionsTests
+{
+    [Fact]
+    public void Numbers_are_invariant_and_show_absence_as_a_dash()
+    {
+        Assert.Equal("—", ReportFunctions.Number(null));
+        Assert.Equal("—", ReportFunctions.Number(double.NaN));
+        Assert.Equal("∞", ReportFunctions.Number(double.PositiveInfinity));
+        Assert.Equal("-∞", ReportFunctions.Number(double.NegativeInfinity));
+        Assert.Equal("0", ReportFunctions.Number(-0.0));
+        Assert.Equal("0.1", ReportFunctions.Number(0.1));
+        Assert.Equal("1E-05", ReportFunctions.Number(1e-5));
+        Assert.Equal("0.3333333333", ReportFunctions.Number(1.0 / 3));
+        Assert.Equal("1.23456789E+12", ReportFunctions.Number(1234567890123.0));
+        Assert.Equal("42", ReportFunctions.Number(42));
+        Assert.Equal("9000000000", ReportFunctions.Number(9_000_000_000L));
+        Assert.Equal("0.333333333333333", ReportFunctions.FullNumber(1.0 / 3));
+        Assert.Equal("—", ReportFunctions.FullNumber(null));
+    }
+
+    [Fact]
+    public void Flags_read_as_words()
+    {
+        Assert.Equal("yes", ReportFunctions.YesNo(true));
+        Assert.Equal("no", ReportFunctions.YesNo(false));
+        Assert.Equal("—", ReportFunctions.YesNo(null));
+        Assert.Equal("PASS", ReportFunctions.PassFail(true));
+        Assert.Equal("FAIL", ReportFunctions.PassFail(false));
+    }
+
+    [Fact]
+    public void Html_escapes_markup_and_quotes()
+    {
+        Assert.Equal("&lt;b a=&quot;1&quot; c=&#39;2&#39;&gt;&amp;", ReportFunctions.Html("<b a=\"1\" c='2'>&"));
+        Assert.Equal("°C — µ", ReportFunctions.Html("°C — µ"));
+        Assert.Equal("—", ReportFunctions.Html(null));
+    }
+
+    [Fact]
+    public void Markdown_text_cannot_open_markup_or_break_a_table()
+    {
+        Assert.Equal("a\\|b \\*c\\* \\<d\\> \\[e\\]", ReportFunctions.Markdown("a|b *c* <d> [e]"));
+        Assert.Equal("one two", ReportFunctions.Markdown("one\r\ntwo"));
+        Assert.Equal("\\# not a heading\nplain\n\\- not a list", ReportFunctions.MarkdownBlock("# not a heading\r\nplain\n- not a list"));
+    }
+
+    [Fact]
+    public void Markdown_code_spans_survive_backticks_and_pipes()
+    {
+        Assert.Equal("`x^2`", ReportFunctions.MarkdownCode("x^2"));
+        Assert.Equal("``a`b``", ReportFunctions.MarkdownCode("a`b"));
+        Assert.Equal("`` `a` ``", ReportFunctions.MarkdownCode("`a`"));
+        Assert.Equal("`|e|`", ReportFunctions.MarkdownCode("|e|"));
+        Assert.Equal("`\\|e\\|`", ReportFunctions.MarkdownCodeCell("|e|"));
+        Assert.Equal("—", ReportFunctions.MarkdownCode(""));
+    }
+
+    [Fact]
+    public void Error_locations_leave_out_unknown_parts()
+    {
+        Assert.Equal("s.yaml:3:9", ReportFunctions.Location(new ErrorEntry("s.yaml", 3, 9, null, "m")));
+        Assert.Equal("s.yaml:3", ReportFunctions.Location(new ErrorEntry("s.yaml", 3, null, null, "m")));
+        Assert.Equal("s.yaml", ReportFunctions.Location(new ErrorEntry("s.yaml", null, 9, null, "m")));
+    }
+}

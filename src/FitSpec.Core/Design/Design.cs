@@ -11,7 +11,8 @@ public readonly record struct Entry(int Index, double Value);
 
 /// <summary>
 /// The numbers a fit is made of. X holds the internal basis (polynomials centred and scaled), one array per
-/// internal coefficient θ; RawX holds the raw basis (the same arrays where a term is not transformed). The
+/// internal coefficient θ; RawX holds the raw basis (the same arrays where a term is not transformed) and
+/// RawXLow the rounding error of computed raw columns such as powers (null where RawX is exact). The
 /// user's raw coefficients are β = M θ, with M given row by row in RawFromInternal (identity rows for plain
 /// terms). Everything the user writes about coefficients is over β.
 /// </summary>
@@ -21,6 +22,7 @@ public sealed record Design(
     double[]? W,
     double[][] X,
     double[][] RawX,
+    double[]?[] RawXLow,
     IReadOnlyList<Coefficient> Coefficients,
     IReadOnlyList<Entry[]> RawFromInternal,
     IReadOnlyList<string> Inputs,

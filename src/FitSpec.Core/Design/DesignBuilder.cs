@@ -39,6 +39,7 @@ public static class DesignBuilder
         var coefficients = new List<Coefficient>();
         var internalCols = new List<double[]>();
         var rawCols = new List<double[]>();
+        var rawLow = new List<double[]?>();
         var rawMap = new List<List<Entry>>();
         var basis = new List<Func<Func<string, Jet>, IEnumerable<Jet>>>();
         var inputs = new List<string>();
@@ -51,89 +52,89 @@ public static class DesignBuilder
             switch (term.Spec)
             {
                 case ExpressionTerm et:
-                {
-                    var root = term.Expression!.Root!;
-                    var isConstant = term.Expression.IsConstant;
-                    double[] col;
-                    if (isConstant)
                     {
-                        var value = ExpressionEvaluator.EvaluateScalar(root, _ => double.NaN);
-                        if (!double.IsFinite(value) || value == 0)
+                        var root = term.Expression!.Root!;
+                        var isConstant = term.Expression.IsConstant;
+                        double[] col;
+                        if (isConstant)
                         {
-                            var at = et.Expression.Pos;
-                            errors.Add(new Diagnostic(at.File, at.Line, at.Column, $"model.terms.{et.Key}", $"constant term '{et.Expression.Value}' must be a finite non-zero number"));
-                            value = 1;
+                            var value = ExpressionEvaluator.EvaluateScalar(root, _ => double.NaN);
+                            if (!double.IsFinite(value) || value == 0)
+                            {
+                                var at = et.Expression.Pos;
+                                errors.Add(new Diagnostic(at.File, at.Line, at.Column, $"model.terms.{et.Key}", $"constant term '{et.Expression.Value}' must be a finite non-zero number"));
+                                value = 1;
+                            }
+
+                            col = new double[n];
+                            Array.Fill(col, value);
+                            if (constantIndex is null)
+                            {
+                                constantIndex = coefficients.Count;
+                                constantValue = value;
+                            }
+                        }
+                        else
+                        {
+                            col = Finite(ExpressionEvaluator.Evaluate(root, Column, n), table, et.Key, et.Expression.Value, errors);
+                            inputs.AddRange(term.Expression.Columns);
                         }
 
-                        col = new double[n];
-                        Array.Fill(col, value);
-                        if (constantIndex is null)
-                        {
-                            constantIndex = coefficients.Count;
-                            constantValue = value;
-                        }
+                        Add(et.Key, et.Key, isConstant, col, col);
+                        basis.Add(input => [ExpressionEvaluator.EvaluateJet(root, input)]);
+                        break;
                     }
-                    else
-                    {
-                        col = Finite(ExpressionEvaluator.Evaluate(root, Column, n), table, et.Key, et.Expression.Value, errors);
-                        inputs.AddRange(term.Expression.Columns);
-                    }
-
-                    Add(et.Key, et.Key, isConstant, col, col);
-                    basis.Add(input => [ExpressionEvaluator.EvaluateJet(root, input)]);
-                    break;
-                }
 
                 case PolynomialTerm pt:
-                {
-                    var root = term.Expression!.Root!;
-                    inputs.AddRange(term.Expression.Columns);
-                    var u = Finite(ExpressionEvaluator.Evaluate(root, Column, n), table, pt.Key, pt.Input.Value, errors);
-                    AddPolynomial(pt, u, hasConstant);
-                    var degree = pt.Degree;
-                    basis.Add(input =>
                     {
-                        var x = ExpressionEvaluator.EvaluateJet(root, input);
-                        var powers = new Jet[degree];
-                        var power = x;
-                        for (var k = 0; k < degree; k++)
+                        var root = term.Expression!.Root!;
+                        inputs.AddRange(term.Expression.Columns);
+                        var u = Finite(ExpressionEvaluator.Evaluate(root, Column, n), table, pt.Key, pt.Input.Value, errors);
+                        AddPolynomial(pt, u, hasConstant);
+                        var degree = pt.Degree;
+                        basis.Add(input =>
                         {
-                            powers[k] = power;
-                            power *= x;
-                        }
+                            var x = ExpressionEvaluator.EvaluateJet(root, input);
+                            var powers = new Jet[degree];
+                            var power = x;
+                            for (var k = 0; k < degree; k++)
+                            {
+                                powers[k] = power;
+                                power *= x;
+                            }
 
-                        return powers;
-                    });
-                    break;
-                }
+                            return powers;
+                        });
+                        break;
+                    }
 
                 case ColumnsTerm ct:
-                {
-                    var matched = Glob.Filter(table.Header, ct.Glob.Value).ToList();
-                    if (matched.Count == 0)
                     {
-                        var at = ct.Glob.Pos;
-                        errors.Add(new Diagnostic(at.File, at.Line, at.Column, $"model.terms.{ct.Key}", $"no data column matches '{ct.Glob.Value}'; columns are: {string.Join(", ", table.Header)}"));
-                    }
+                        var matched = Glob.Filter(table.Header, ct.Glob.Value).ToList();
+                        if (matched.Count == 0)
+                        {
+                            var at = ct.Glob.Pos;
+                            errors.Add(new Diagnostic(at.File, at.Line, at.Column, $"model.terms.{ct.Key}", $"no data column matches '{ct.Glob.Value}'; columns are: {string.Join(", ", table.Header)}"));
+                        }
 
-                    foreach (var name in matched)
-                    {
-                        var col = Finite(table.Columns[name], table, name, name, errors);
-                        Add(name, ct.Key, false, col, col);
-                        inputs.Add(name);
-                        var captured = name;
-                        basis.Add(input => [input(captured)]);
-                    }
+                        foreach (var name in matched)
+                        {
+                            var col = Finite(table.Columns[name], table, name, name, errors);
+                            Add(name, ct.Key, false, col, col);
+                            inputs.Add(name);
+                            var captured = name;
+                            basis.Add(input => [input(captured)]);
+                        }
 
-                    break;
-                }
+                        break;
+                    }
 
                 case SplineTerm st:
-                {
-                    var at = st.Pos;
-                    errors.Add(new Diagnostic(at.File, at.Line, at.Column, $"model.terms.{st.Key}", "term kind 'spline' is not supported yet"));
-                    break;
-                }
+                    {
+                        var at = st.Pos;
+                        errors.Add(new Diagnostic(at.File, at.Line, at.Column, $"model.terms.{st.Key}", "term kind 'spline' is not supported yet"));
+                        break;
+                    }
             }
         }
 
@@ -159,7 +160,7 @@ public static class DesignBuilder
         }
 
         var design = new Design(
-            table, y, w, [.. internalCols], [.. rawCols], coefficients,
+            table, y, w, [.. internalCols], [.. rawCols], [.. rawLow], coefficients,
             rawMap.Select(r => r.ToArray()).ToList(),
             inputs.Distinct(StringComparer.Ordinal).ToList(),
             ConstantInSpan: constantIndex is not null || SpanCheck.ContainsConstant([.. rawCols]),
@@ -172,6 +173,7 @@ public static class DesignBuilder
             coefficients.Add(new Coefficient(name, key, isConstant));
             internalCols.Add(internalCol);
             rawCols.Add(rawCol);
+            rawLow.Add(null);
         }
 
         // Internally z = (u - c)/s with z^k columns (centred only when a constant term can absorb the shift);
@@ -201,16 +203,18 @@ public static class DesignBuilder
             {
                 var z = new double[n];
                 var raw = new double[n];
+                var low = new double[n];
                 for (var i = 0; i < n; i++)
                 {
                     var zi = (u[i] - c) / s;
                     z[i] = IntPow(zi, k);
-                    raw[i] = IntPow(u[i], k);
+                    (raw[i], low[i]) = ExactPower(u[i], k);
                 }
 
                 coefficients.Add(new Coefficient($"{pt.Key}{k}", pt.Key, false));
                 internalCols.Add(z);
                 rawCols.Add(raw);
+                rawLow.Add(low);
                 rawMap.Add([]);
             }
 
@@ -246,6 +250,21 @@ public static class DesignBuilder
         }
 
         return r;
+    }
+
+    // x^k as hi + lo, the rounding error of each product kept by FMA (about 32 significant digits).
+    private static (double Hi, double Lo) ExactPower(double x, int k)
+    {
+        double hi = 1, lo = 0;
+        for (var i = 0; i < k; i++)
+        {
+            var p = hi * x;
+            var e = Math.FusedMultiplyAdd(hi, x, -p) + (lo * x);
+            hi = p + e;
+            lo = e - (hi - p);
+        }
+
+        return (hi, lo);
     }
 
     private static double Binomial(int n, int k)

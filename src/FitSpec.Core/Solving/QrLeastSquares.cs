@@ -13,7 +13,8 @@ internal sealed class QrLeastSquares : IFitSolver
     /// <summary>|R_kk| below this fraction of the largest |R_jj| counts as rank deficiency.</summary>
     public const double RankTolerance = 1e-13;
 
-    private const int RefinementSteps = 2;
+    /// <summary>Problems with rows × coefficients² up to this are also solved in double-double (milliseconds).</summary>
+    public const long ExtendedPrecisionLimit = 20_000_000;
 
     public bool CanSolve(LoweredFit fit, SolveOptions options) => fit.ClosedForm is not null;
 
@@ -91,41 +92,89 @@ internal sealed class QrLeastSquares : IFitSolver
             theta[j] = z[j] * scale[j];
         }
 
-        // Refinement in the user's basis: the residual y - X_raw β is computed with error-free products and
-        // sums, the correction solved with the same factors and mapped back through M. This keeps digits that
-        // the change of basis would otherwise lose for ill-conditioned raw polynomials.
-        var beta = design.ToRaw(theta);
-        var ls = fit.ClosedForm;
-        for (var step = 0; step < RefinementSteps; step++)
+        // One step of refinement: the residual of the unfactored system, solved with the same factors.
+        var residual = new double[m];
+        var fitted = design.Fitted(theta);
+        for (var i = 0; i < n; i++)
         {
-            var e = Verification.Residuals.FromRaw(design.Y, design.RawX, beta);
-            var r = new double[m];
+            residual[i] = sqrtW[i] * (design.Y[i] - fitted[i]);
+        }
+
+        for (var k = 0; k < ridge.Count; k++)
+        {
+            residual[n + k] = -ridge[k].Sum(e => e.Value * theta[e.Index]);
+        }
+
+        var dz = qr.Solve(residual);
+        for (var j = 0; j < p; j++)
+        {
+            theta[j] += dz[j] * scale[j];
+        }
+
+        // Small problems are solved once more in double-double arithmetic directly in the user's raw basis,
+        // so that an ill-conditioned raw polynomial loses no digits in the change of basis.
+        double[]? beta = null;
+        var method = "QR with column scaling and one refinement step";
+        if ((long)m * p * p <= ExtendedPrecisionLimit)
+        {
+            beta = RawExtendedPrecision(design, fit.ClosedForm, m);
+            method += ", then double-double QR in the raw basis";
+        }
+
+        return new Solution(SolveStatus.Optimal, theta, [], [], "built-in Householder QR", method, "closed form", clock.Elapsed.TotalSeconds, beta is null ? 2 : 3, "solved", beta);
+    }
+
+    private static double[] RawExtendedPrecision(Design.Design design, LeastSquaresForm ls, int m)
+    {
+        var n = design.Rows;
+        var p = design.P;
+        var sqrtW = new DoubleDouble[n];
+        for (var i = 0; i < n; i++)
+        {
+            sqrtW[i] = DoubleDouble.Sqrt(design.Weight(i));
+        }
+
+        var a = new DoubleDouble[p][];
+        var scale = new double[p];
+        for (var j = 0; j < p; j++)
+        {
+            var col = new DoubleDouble[m];
+            var hi = design.RawX[j];
+            var lo = design.RawXLow[j];
+            double norm2 = 0;
             for (var i = 0; i < n; i++)
             {
-                r[i] = sqrtW[i] * e[i];
+                col[i] = sqrtW[i] * new DoubleDouble(hi[i], lo?[i] ?? 0);
+                norm2 += col[i].Hi * col[i].Hi;
             }
 
             for (var k = 0; k < ls.RidgeRaw.Count; k++)
             {
-                r[n + k] = -ls.RidgeRaw[k].Sqrt * beta[ls.RidgeRaw[k].Raw];
+                if (ls.RidgeRaw[k].Raw == j)
+                {
+                    col[n + k] = ls.RidgeRaw[k].Sqrt;
+                    norm2 += ls.RidgeRaw[k].Sqrt * ls.RidgeRaw[k].Sqrt;
+                }
             }
 
-            var dz = qr.Solve(r);
-            var dTheta = new double[p];
-            for (var j = 0; j < p; j++)
+            // A power-of-two scale is exact, so it changes nothing but the exponents.
+            scale[j] = norm2 > 0 ? Math.ScaleB(1, -(int)Math.Round(Math.Log2(Math.Sqrt(norm2)))) : 1;
+            for (var i = 0; i < m; i++)
             {
-                dTheta[j] = dz[j] * scale[j];
-                theta[j] += dTheta[j];
+                col[i] *= scale[j];
             }
 
-            var dBeta = design.ToRaw(dTheta);
-            for (var j = 0; j < p; j++)
-            {
-                beta[j] += dBeta[j];
-            }
+            a[j] = col;
         }
 
-        return new Solution(SolveStatus.Optimal, theta, [], [], "built-in Householder QR", $"QR with column scaling, {RefinementSteps} refinement steps in the raw basis", "closed form", clock.Elapsed.TotalSeconds, 1 + RefinementSteps, "solved", beta);
+        var b = new DoubleDouble[m];
+        for (var i = 0; i < n; i++)
+        {
+            b[i] = sqrtW[i] * design.Y[i];
+        }
+
+        var z = DoubleDoubleLeastSquares.Solve(a, b);
+        return z.Select((v, j) => v.Value * scale[j]).ToArray();
     }
 
     internal static double Norm(double[] v, int from)

@@ -54,147 +54,147 @@ internal static class ConstraintReader
         switch (kind.Value)
         {
             case "bounds":
-            {
-                var e = f.Entries(map, "a bounds constraint", ["kind", "on", "min", "max"]);
-                var on = e.TryGetValue("on", out var o) ? f.TextList(o.Value, "constraints.on") : null;
-                double? min = e.TryGetValue("min", out var mn) ? f.Number(mn.Value, "constraints.min") : null;
-                double? max = e.TryGetValue("max", out var mx) ? f.Number(mx.Value, "constraints.max") : null;
-                if (!e.ContainsKey("min") && !e.ContainsKey("max"))
                 {
-                    f.Error(map, "constraints.min", "a bounds constraint needs 'min:', 'max:' or both");
-                }
-
-                if (min is { } lo && max is { } hi && lo > hi)
-                {
-                    f.Error(map, "constraints.min", $"bounds min {Num(lo)} is greater than max {Num(hi)}");
-                }
-
-                var names = on is null ? "every coefficient" : string.Join(", ", on.Select(s => s.Value));
-                var label = (min, max) switch
-                {
-                    ({ } a, { } b) => $"{Num(a)} <= {names} <= {Num(b)}",
-                    ({ } a, null) => $"{names} >= {Num(a)}",
-                    (null, { } b) => $"{names} <= {Num(b)}",
-                    _ => $"bounds on {names}",
-                };
-                return new BoundsConstraint(label, pos, on, min, max);
-            }
-
-            case "increasing" or "decreasing" or "convex" or "concave":
-            {
-                var e = f.Entries(map, $"a {kind.Value} constraint", ["kind", "in", "over", "at", "grid"]);
-                var shape = kind.Value switch
-                {
-                    "increasing" => ShapeKind.Increasing,
-                    "decreasing" => ShapeKind.Decreasing,
-                    "convex" => ShapeKind.Convex,
-                    _ => ShapeKind.Concave,
-                };
-                SpecText? input = null;
-                if (!e.TryGetValue("in", out var inNode))
-                {
-                    f.Error(map, "constraints.in", $"a {kind.Value} constraint needs 'in:' (the input it is {kind.Value} in)");
-                }
-                else
-                {
-                    input = f.Text(inNode.Value, "constraints.in");
-                }
-
-                (double, double)? range = null;
-                if (!e.TryGetValue("over", out var over))
-                {
-                    f.Error(map, "constraints.over", $"a {kind.Value} constraint needs 'over: [from, to]'");
-                }
-                else
-                {
-                    range = Range(f, over.Value);
-                }
-
-                var at = e.TryGetValue("at", out var atNode) ? f.NumberMap(atNode.Value, "constraints.at") ?? [] : [];
-                int? grid = null;
-                if (e.TryGetValue("grid", out var g) && f.Integer(g.Value, "constraints.grid") is { } gi)
-                {
-                    if (gi is < 2 or > 100000)
+                    var e = f.Entries(map, "a bounds constraint", ["kind", "on", "min", "max"]);
+                    var on = e.TryGetValue("on", out var o) ? f.TextList(o.Value, "constraints.on") : null;
+                    double? min = e.TryGetValue("min", out var mn) ? f.Number(mn.Value, "constraints.min") : null;
+                    double? max = e.TryGetValue("max", out var mx) ? f.Number(mx.Value, "constraints.max") : null;
+                    if (!e.ContainsKey("min") && !e.ContainsKey("max"))
                     {
-                        f.Error(g.Value, "constraints.grid", $"grid must be between 2 and 100000 points, got {gi}");
+                        f.Error(map, "constraints.min", "a bounds constraint needs 'min:', 'max:' or both");
                     }
 
-                    grid = gi;
+                    if (min is { } lo && max is { } hi && lo > hi)
+                    {
+                        f.Error(map, "constraints.min", $"bounds min {Num(lo)} is greater than max {Num(hi)}");
+                    }
+
+                    var names = on is null ? "every coefficient" : string.Join(", ", on.Select(s => s.Value));
+                    var label = (min, max) switch
+                    {
+                        ({ } a, { } b) => $"{Num(a)} <= {names} <= {Num(b)}",
+                        ({ } a, null) => $"{names} >= {Num(a)}",
+                        (null, { } b) => $"{names} <= {Num(b)}",
+                        _ => $"bounds on {names}",
+                    };
+                    return new BoundsConstraint(label, pos, on, min, max);
                 }
 
-                if (input is null || range is not { } r)
+            case "increasing" or "decreasing" or "convex" or "concave":
                 {
-                    return null;
-                }
+                    var e = f.Entries(map, $"a {kind.Value} constraint", ["kind", "in", "over", "at", "grid"]);
+                    var shape = kind.Value switch
+                    {
+                        "increasing" => ShapeKind.Increasing,
+                        "decreasing" => ShapeKind.Decreasing,
+                        "convex" => ShapeKind.Convex,
+                        _ => ShapeKind.Concave,
+                    };
+                    SpecText? input = null;
+                    if (!e.TryGetValue("in", out var inNode))
+                    {
+                        f.Error(map, "constraints.in", $"a {kind.Value} constraint needs 'in:' (the input it is {kind.Value} in)");
+                    }
+                    else
+                    {
+                        input = f.Text(inNode.Value, "constraints.in");
+                    }
 
-                var atText = at.Count == 0 ? "" : $" at {string.Join(", ", at.Select(kv => $"{kv.Key}={Num(kv.Value)}"))}";
-                return new ShapeConstraint($"{kind.Value} in {input.Value} over [{Num(r.Item1)}, {Num(r.Item2)}]{atText}", pos, shape, input, r.Item1, r.Item2, at, grid);
-            }
+                    (double, double)? range = null;
+                    if (!e.TryGetValue("over", out var over))
+                    {
+                        f.Error(map, "constraints.over", $"a {kind.Value} constraint needs 'over: [from, to]'");
+                    }
+                    else
+                    {
+                        range = Range(f, over.Value);
+                    }
+
+                    var at = e.TryGetValue("at", out var atNode) ? f.NumberMap(atNode.Value, "constraints.at") ?? [] : [];
+                    int? grid = null;
+                    if (e.TryGetValue("grid", out var g) && f.Integer(g.Value, "constraints.grid") is { } gi)
+                    {
+                        if (gi is < 2 or > 100000)
+                        {
+                            f.Error(g.Value, "constraints.grid", $"grid must be between 2 and 100000 points, got {gi}");
+                        }
+
+                        grid = gi;
+                    }
+
+                    if (input is null || range is not { } r)
+                    {
+                        return null;
+                    }
+
+                    var atText = at.Count == 0 ? "" : $" at {string.Join(", ", at.Select(kv => $"{kv.Key}={Num(kv.Value)}"))}";
+                    return new ShapeConstraint($"{kind.Value} in {input.Value} over [{Num(r.Item1)}, {Num(r.Item2)}]{atText}", pos, shape, input, r.Item1, r.Item2, at, grid);
+                }
 
             case "value":
-            {
-                var e = f.Entries(map, "a value constraint", ["kind", "at", "equals", "min", "max"]);
-                IReadOnlyList<KeyValuePair<string, double>> at = [];
-                if (!e.TryGetValue("at", out var atNode))
                 {
-                    f.Error(map, "constraints.at", "a value constraint needs 'at: {input: value, ...}'");
-                }
-                else
-                {
-                    at = f.NumberMap(atNode.Value, "constraints.at") ?? [];
-                }
+                    var e = f.Entries(map, "a value constraint", ["kind", "at", "equals", "min", "max"]);
+                    IReadOnlyList<KeyValuePair<string, double>> at = [];
+                    if (!e.TryGetValue("at", out var atNode))
+                    {
+                        f.Error(map, "constraints.at", "a value constraint needs 'at: {input: value, ...}'");
+                    }
+                    else
+                    {
+                        at = f.NumberMap(atNode.Value, "constraints.at") ?? [];
+                    }
 
-                double? eq = e.TryGetValue("equals", out var q) ? f.Number(q.Value, "constraints.equals") : null;
-                double? min = e.TryGetValue("min", out var mn) ? f.Number(mn.Value, "constraints.min") : null;
-                double? max = e.TryGetValue("max", out var mx) ? f.Number(mx.Value, "constraints.max") : null;
-                if (e.ContainsKey("equals") && (e.ContainsKey("min") || e.ContainsKey("max")))
-                {
-                    f.Error(map, "constraints.equals", "a value constraint takes either 'equals:' or 'min:'/'max:', not both");
-                }
-                else if (!e.ContainsKey("equals") && !e.ContainsKey("min") && !e.ContainsKey("max"))
-                {
-                    f.Error(map, "constraints.equals", "a value constraint needs 'equals:', 'min:' or 'max:'");
-                }
+                    double? eq = e.TryGetValue("equals", out var q) ? f.Number(q.Value, "constraints.equals") : null;
+                    double? min = e.TryGetValue("min", out var mn) ? f.Number(mn.Value, "constraints.min") : null;
+                    double? max = e.TryGetValue("max", out var mx) ? f.Number(mx.Value, "constraints.max") : null;
+                    if (e.ContainsKey("equals") && (e.ContainsKey("min") || e.ContainsKey("max")))
+                    {
+                        f.Error(map, "constraints.equals", "a value constraint takes either 'equals:' or 'min:'/'max:', not both");
+                    }
+                    else if (!e.ContainsKey("equals") && !e.ContainsKey("min") && !e.ContainsKey("max"))
+                    {
+                        f.Error(map, "constraints.equals", "a value constraint needs 'equals:', 'min:' or 'max:'");
+                    }
 
-                if (min is { } lo && max is { } hi && lo > hi)
-                {
-                    f.Error(map, "constraints.min", $"value min {Num(lo)} is greater than max {Num(hi)}");
-                }
+                    if (min is { } lo && max is { } hi && lo > hi)
+                    {
+                        f.Error(map, "constraints.min", $"value min {Num(lo)} is greater than max {Num(hi)}");
+                    }
 
-                var point = string.Join(", ", at.Select(kv => $"{kv.Key}={Num(kv.Value)}"));
-                var rel = (eq, min, max) switch
-                {
-                    ({ } v, _, _) => $"== {Num(v)}",
-                    (null, { } a, { } b) => $"in [{Num(a)}, {Num(b)}]",
-                    (null, { } a, null) => $">= {Num(a)}",
-                    (null, null, { } b) => $"<= {Num(b)}",
-                    _ => "",
-                };
-                return new ValueConstraint($"f({point}) {rel}", pos, at, eq, min, max);
-            }
+                    var point = string.Join(", ", at.Select(kv => $"{kv.Key}={Num(kv.Value)}"));
+                    var rel = (eq, min, max) switch
+                    {
+                        ({ } v, _, _) => $"== {Num(v)}",
+                        (null, { } a, { } b) => $"in [{Num(a)}, {Num(b)}]",
+                        (null, { } a, null) => $">= {Num(a)}",
+                        (null, null, { } b) => $"<= {Num(b)}",
+                        _ => "",
+                    };
+                    return new ValueConstraint($"f({point}) {rel}", pos, at, eq, min, max);
+                }
 
             case "residuals":
-            {
-                var e = f.Entries(map, "a residuals constraint", ["kind", "max-abs"]);
-                if (!e.TryGetValue("max-abs", out var ma))
                 {
-                    f.Error(map, "constraints.max-abs", "a residuals constraint needs 'max-abs:' (0 or more)");
-                    return null;
-                }
+                    var e = f.Entries(map, "a residuals constraint", ["kind", "max-abs"]);
+                    if (!e.TryGetValue("max-abs", out var ma))
+                    {
+                        f.Error(map, "constraints.max-abs", "a residuals constraint needs 'max-abs:' (0 or more)");
+                        return null;
+                    }
 
-                if (f.Number(ma.Value, "constraints.max-abs") is not { } limit)
-                {
-                    return null;
-                }
+                    if (f.Number(ma.Value, "constraints.max-abs") is not { } limit)
+                    {
+                        return null;
+                    }
 
-                if (limit < 0)
-                {
-                    f.Error(ma.Value, "constraints.max-abs", $"max-abs must be 0 or more, got {Num(limit)}");
-                    return null;
-                }
+                    if (limit < 0)
+                    {
+                        f.Error(ma.Value, "constraints.max-abs", $"max-abs must be 0 or more, got {Num(limit)}");
+                        return null;
+                    }
 
-                return new ResidualsConstraint($"|residual| <= {Num(limit)}", pos, limit);
-            }
+                    return new ResidualsConstraint($"|residual| <= {Num(limit)}", pos, limit);
+                }
 
             default:
                 f.Error(kind.Pos, "constraints.kind", $"unknown constraint kind '{kind.Value}'{NameSuggester.Hint(kind.Value, KindNames)}; known: {string.Join(", ", KindNames)}");

@@ -77,99 +77,99 @@ internal static partial class TermReader
         switch (kind)
         {
             case "polynomial":
-            {
-                var e = f.Entries(map, $"polynomial term '{key}'", ["polynomial", "degree"]);
-                var input = f.Text(e["polynomial"].Value, field);
-                if (!e.TryGetValue("degree", out var dn))
                 {
-                    f.Error(map, field, $"polynomial term '{key}' needs 'degree:' (1 or more)");
-                    return null;
-                }
+                    var e = f.Entries(map, $"polynomial term '{key}'", ["polynomial", "degree"]);
+                    var input = f.Text(e["polynomial"].Value, field);
+                    if (!e.TryGetValue("degree", out var dn))
+                    {
+                        f.Error(map, field, $"polynomial term '{key}' needs 'degree:' (1 or more)");
+                        return null;
+                    }
 
-                var degree = f.Integer(dn.Value, $"{field}.degree");
-                if (degree is < 1 or > 30)
-                {
-                    f.Error(dn.Value, $"{field}.degree", $"polynomial degree must be between 1 and 30, got {degree}");
-                    return null;
-                }
+                    var degree = f.Integer(dn.Value, $"{field}.degree");
+                    if (degree is < 1 or > 30)
+                    {
+                        f.Error(dn.Value, $"{field}.degree", $"polynomial degree must be between 1 and 30, got {degree}");
+                        return null;
+                    }
 
-                return input is null || degree is null ? null : new PolynomialTerm(key, pos, input, degree.Value);
-            }
+                    return input is null || degree is null ? null : new PolynomialTerm(key, pos, input, degree.Value);
+                }
 
             case "spline":
-            {
-                var e = f.Entries(map, $"spline term '{key}'", ["spline", "knots", "degree", "at"]);
-                var input = f.Text(e["spline"].Value, field);
-                var degree = 3;
-                if (e.TryGetValue("degree", out var dn) && f.Integer(dn.Value, $"{field}.degree") is { } d)
                 {
-                    if (d is < 0 or > 10)
+                    var e = f.Entries(map, $"spline term '{key}'", ["spline", "knots", "degree", "at"]);
+                    var input = f.Text(e["spline"].Value, field);
+                    var degree = 3;
+                    if (e.TryGetValue("degree", out var dn) && f.Integer(dn.Value, $"{field}.degree") is { } d)
                     {
-                        f.Error(dn.Value, $"{field}.degree", $"spline degree must be between 0 and 10, got {d}");
+                        if (d is < 0 or > 10)
+                        {
+                            f.Error(dn.Value, $"{field}.degree", $"spline degree must be between 0 and 10, got {d}");
+                        }
+
+                        degree = d;
                     }
 
-                    degree = d;
-                }
-
-                List<double>? at = null;
-                if (e.TryGetValue("at", out var atNode) && f.Sequence(atNode.Value, $"{field}.at") is { } seq)
-                {
-                    at = [];
-                    foreach (var item in seq.Children)
+                    List<double>? at = null;
+                    if (e.TryGetValue("at", out var atNode) && f.Sequence(atNode.Value, $"{field}.at") is { } seq)
                     {
-                        if (f.Number(item, $"{field}.at") is { } x)
+                        at = [];
+                        foreach (var item in seq.Children)
                         {
-                            at.Add(x);
+                            if (f.Number(item, $"{field}.at") is { } x)
+                            {
+                                at.Add(x);
+                            }
+                        }
+
+                        for (var i = 1; i < at.Count; i++)
+                        {
+                            if (at[i] <= at[i - 1])
+                            {
+                                f.Error(atNode.Value, $"{field}.at", "spline knots in 'at:' must be strictly increasing");
+                                break;
+                            }
                         }
                     }
 
-                    for (var i = 1; i < at.Count; i++)
+                    int? knots = null;
+                    if (e.TryGetValue("knots", out var kn))
                     {
-                        if (at[i] <= at[i - 1])
+                        knots = f.Integer(kn.Value, $"{field}.knots");
+                        if (knots is < 2)
                         {
-                            f.Error(atNode.Value, $"{field}.at", "spline knots in 'at:' must be strictly increasing");
-                            break;
+                            f.Error(kn.Value, $"{field}.knots", $"a spline needs at least 2 knots (both boundary knots count), got {knots}");
+                        }
+
+                        if (knots is { } kk && at is not null && at.Count != kk)
+                        {
+                            f.Error(kn.Value, $"{field}.knots", $"'knots: {kk}' disagrees with the {at.Count} knots listed in 'at:'");
                         }
                     }
-                }
-
-                int? knots = null;
-                if (e.TryGetValue("knots", out var kn))
-                {
-                    knots = f.Integer(kn.Value, $"{field}.knots");
-                    if (knots is < 2)
+                    else if (at is not null)
                     {
-                        f.Error(kn.Value, $"{field}.knots", $"a spline needs at least 2 knots (both boundary knots count), got {knots}");
+                        knots = at.Count;
+                    }
+                    else
+                    {
+                        f.Error(map, field, $"spline term '{key}' needs 'knots:' (at least 2) or 'at: [...]'");
                     }
 
-                    if (knots is { } kk && at is not null && at.Count != kk)
+                    if (at is not null && at.Count < 2)
                     {
-                        f.Error(kn.Value, $"{field}.knots", $"'knots: {kk}' disagrees with the {at.Count} knots listed in 'at:'");
+                        f.Error(map, $"{field}.at", "a spline needs at least 2 knots in 'at:'");
+                        return null;
                     }
-                }
-                else if (at is not null)
-                {
-                    knots = at.Count;
-                }
-                else
-                {
-                    f.Error(map, field, $"spline term '{key}' needs 'knots:' (at least 2) or 'at: [...]'");
-                }
 
-                if (at is not null && at.Count < 2)
-                {
-                    f.Error(map, $"{field}.at", "a spline needs at least 2 knots in 'at:'");
-                    return null;
+                    return input is null || knots is not >= 2 ? null : new SplineTerm(key, pos, input, knots.Value, degree, at);
                 }
-
-                return input is null || knots is not >= 2 ? null : new SplineTerm(key, pos, input, knots.Value, degree, at);
-            }
 
             default:
-            {
-                var e = f.Entries(map, $"columns term '{key}'", ["columns"]);
-                return f.Text(e["columns"].Value, field) is { } glob ? new ColumnsTerm(key, pos, glob) : null;
-            }
+                {
+                    var e = f.Entries(map, $"columns term '{key}'", ["columns"]);
+                    return f.Text(e["columns"].Value, field) is { } glob ? new ColumnsTerm(key, pos, glob) : null;
+                }
         }
     }
 

@@ -15,81 +15,81 @@ internal static class ConstraintChecks
         switch (lc.Spec)
         {
             case RelationConstraint r:
-            {
-                var rel = Linearizer.Linearize(r.Text.Value).Relation!;
-                double lhs = 0, size = 0;
-                foreach (var (name, a) in rel.Terms)
                 {
-                    var j = IndexOf(design, name);
-                    lhs += a * beta[j];
-                    size += Math.Abs(a * beta[j]);
-                }
+                    var rel = Linearizer.Linearize(r.Text.Value).Relation!;
+                    double lhs = 0, size = 0;
+                    foreach (var (name, a) in rel.Terms)
+                    {
+                        var j = IndexOf(design, name);
+                        lhs += a * beta[j];
+                        size += Math.Abs(a * beta[j]);
+                    }
 
-                var scale = Math.Max(1, Math.Max(Math.Abs(rel.Constant), size));
-                var (lo, hi) = rel.Operator switch
-                {
-                    RelationOperator.LessOrEqual => (double.NegativeInfinity, rel.Constant),
-                    RelationOperator.GreaterOrEqual => (rel.Constant, double.PositiveInfinity),
-                    _ => (rel.Constant, rel.Constant),
-                };
-                var (violation, slack) = Interval(lhs, lo, hi, scale);
-                return Make(lc, "relation", violation, slack);
-            }
+                    var scale = Math.Max(1, Math.Max(Math.Abs(rel.Constant), size));
+                    var (lo, hi) = rel.Operator switch
+                    {
+                        RelationOperator.LessOrEqual => (double.NegativeInfinity, rel.Constant),
+                        RelationOperator.GreaterOrEqual => (rel.Constant, double.PositiveInfinity),
+                        _ => (rel.Constant, rel.Constant),
+                    };
+                    var (violation, slack) = Interval(lhs, lo, hi, scale);
+                    return Make(lc, "relation", violation, slack);
+                }
 
             case BoundsConstraint b:
-            {
-                double violation = 0, slack = double.PositiveInfinity;
-                var on = b.On is null
-                    ? Enumerable.Range(0, design.P)
-                    : Enumerable.Range(0, design.P).Where(j => b.On.Any(g => Design.Glob.IsMatch(design.Coefficients[j].Name, g.Value)));
-                foreach (var j in on)
                 {
-                    var scale = Math.Max(1, Math.Abs(beta[j]));
-                    var (v, s) = Interval(beta[j], b.Min ?? double.NegativeInfinity, b.Max ?? double.PositiveInfinity, scale);
-                    violation = Math.Max(violation, v);
-                    slack = Math.Min(slack, s);
-                }
+                    double violation = 0, slack = double.PositiveInfinity;
+                    var on = b.On is null
+                        ? Enumerable.Range(0, design.P)
+                        : Enumerable.Range(0, design.P).Where(j => b.On.Any(g => Design.Glob.IsMatch(design.Coefficients[j].Name, g.Value)));
+                    foreach (var j in on)
+                    {
+                        var scale = Math.Max(1, Math.Abs(beta[j]));
+                        var (v, s) = Interval(beta[j], b.Min ?? double.NegativeInfinity, b.Max ?? double.PositiveInfinity, scale);
+                        violation = Math.Max(violation, v);
+                        slack = Math.Min(slack, s);
+                    }
 
-                return Make(lc, "bounds", violation, slack);
-            }
+                    return Make(lc, "bounds", violation, slack);
+                }
 
             case ValueConstraint v:
-            {
-                var point = v.At.ToDictionary(kv => kv.Key, kv => kv.Value, StringComparer.Ordinal);
-                var phi = design.Basis.At(point, null);
-                double f = 0, size = 0;
-                for (var j = 0; j < beta.Length; j++)
                 {
-                    f += phi[j].Value * beta[j];
-                    size += Math.Abs(phi[j].Value * beta[j]);
+                    var point = v.At.ToDictionary(kv => kv.Key, kv => kv.Value, StringComparer.Ordinal);
+                    var phi = design.Basis.At(point, null);
+                    double f = 0, size = 0;
+                    for (var j = 0; j < beta.Length; j++)
+                    {
+                        f += phi[j].Value * beta[j];
+                        size += Math.Abs(phi[j].Value * beta[j]);
+                    }
+
+                    var (lo, hi) = v.EqualTo is { } eq ? (eq, eq) : (v.Min ?? double.NegativeInfinity, v.Max ?? double.PositiveInfinity);
+                    var (violation, slack) = Interval(f, lo, hi, Math.Max(1, size));
+                    return Make(lc, "value", violation, slack);
                 }
 
-                var (lo, hi) = v.EqualTo is { } eq ? (eq, eq) : (v.Min ?? double.NegativeInfinity, v.Max ?? double.PositiveInfinity);
-                var (violation, slack) = Interval(f, lo, hi, Math.Max(1, size));
-                return Make(lc, "value", violation, slack);
-            }
-
             case ShapeConstraint s:
-            {
-                var shape = lc.Shape!;
-                var (worst, size) = WorstSlope(design, shape, beta, shape.GridPoints);
-                var finePoints = ((shape.GridPoints - 1) * 10) + 1;
-                var (fineWorst, _) = WorstSlope(design, shape, beta, finePoints);
-                var scale = Math.Max(1, size);
-                var violation = Math.Max(0, -worst) / scale;
-                return Make(lc, s.Shape.ToString().ToLowerInvariant(), violation, worst / scale) with
                 {
-                    FineGridWorst = Math.Max(0, -fineWorst),
-                    FineGridPoints = finePoints,
-                };
-            }
+                    var shape = lc.Shape!;
+                    var (worst, size) = WorstSlope(design, shape, beta, shape.GridPoints);
+                    var finePoints = ((shape.GridPoints - 1) * 10) + 1;
+                    var (fineWorst, _) = WorstSlope(design, shape, beta, finePoints);
+                    var scale = Math.Max(1, size);
+                    var violation = Math.Max(0, -worst) / scale;
+                    return Make(lc, s.Shape.ToString().ToLowerInvariant(), violation, worst / scale) with
+                    {
+                        FineGridWorst = Math.Max(0, -fineWorst),
+                        FineGridPoints = finePoints,
+                    };
+                }
 
             case ResidualsConstraint rc:
-            {
-                var maxAbs = e.Length == 0 ? 0 : e.Max(Math.Abs);
-                var scale = Math.Max(1, rc.MaxAbs);
-                return Make(lc, "residuals", Math.Max(0, maxAbs - rc.MaxAbs) / scale, (rc.MaxAbs - maxAbs) / scale);
-            }
+                {
+                    var maxAbs = e.Length == 0 ? 0 : e.Max(Math.Abs);
+                    var scale = Math.Max(1, rc.MaxAbs);
+                    return Make(lc, "residuals", Math.Max(0, maxAbs - rc.MaxAbs) / scale, (rc.MaxAbs - maxAbs) / scale);
+                }
 
             default:
                 return Make(lc, "unknown", 0, double.PositiveInfinity);

@@ -85,15 +85,15 @@ public static class Objectives
 
                 return penalty.Weight * s;
             case PenaltyKind.Smoothness:
-            {
-                var d = on.Select(j => beta[j]).ToArray();
-                for (var k = 0; k < penalty.Order!.Value && d.Length > 0; k++)
                 {
-                    d = d.Skip(1).Select((v, i) => v - d[i]).ToArray();
-                }
+                    var d = on.Select(j => beta[j]).ToArray();
+                    for (var k = 0; k < penalty.Order!.Value && d.Length > 0; k++)
+                    {
+                        d = d.Skip(1).Select((v, i) => v - d[i]).ToArray();
+                    }
 
-                return penalty.Weight * (penalty.NormL1 ? d.Sum(Math.Abs) : d.Sum(v => v * v));
-            }
+                    return penalty.Weight * (penalty.NormL1 ? d.Sum(Math.Abs) : d.Sum(v => v * v));
+                }
 
             default:
                 return 0;

@@ -7,7 +7,7 @@ namespace FitSpec.Verification;
 /// </summary>
 internal static class Residuals
 {
-    public static double[] FromRaw(double[] y, double[][] rawX, ReadOnlySpan<double> beta)
+    public static double[] FromRaw(double[] y, double[][] rawX, double[]?[] rawLow, ReadOnlySpan<double> beta)
     {
         var n = y.Length;
         var e = new double[n];
@@ -23,6 +23,10 @@ internal static class Residuals
                 var sumErr = (hi - (sum - bb)) + (prod - bb);
                 hi = sum;
                 lo += sumErr + prodErr;
+                if (rawLow[j] is { } low)
+                {
+                    lo -= beta[j] * low[i];
+                }
             }
 
             e[i] = hi + lo;

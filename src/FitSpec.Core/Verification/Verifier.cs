@@ -27,7 +27,7 @@ public static class Verifier
         var x = solution.X ?? throw new ArgumentException("solution has no point", nameof(solution));
         var theta = x[..design.P];
         var beta = solution.Raw ?? design.ToRaw(theta);
-        var e = Residuals.FromRaw(design.Y, design.RawX, beta);
+        var e = Residuals.FromRaw(design.Y, design.RawX, design.RawXLow, beta);
         var objective = Objectives.Total(fit.Spec, design, e, beta, fit.PenaltyTargets);
         var metrics = ComputeMetrics(design, e);
         var failures = new List<string>();

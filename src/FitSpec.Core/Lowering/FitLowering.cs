@@ -1,19 +1,23 @@
 using FitSpec.Diagnostics;
-using FitSpec.Lowering.Constraints;
-using FitSpec.Lowering.Losses;
-using FitSpec.Lowering.Penalties;
 using FitSpec.Spec;
 
 namespace FitSpec.Lowering;
 
-/// <summary>Stage 4: design + spec → <see cref="LoweredFit"/>. Each kind is one unit in the catalogue below.</summary>
+/// <summary>
+/// Stage 4: design + spec → <see cref="LoweredFit"/>. Each loss, penalty and constraint kind is one unit class
+/// (ILossUnit, IPenaltyUnit, IConstraintUnit) found in this assembly; adding a kind means adding a unit.
+/// </summary>
 public static class FitLowering
 {
-    private static readonly ILossUnit[] LossUnits = [new L2Loss(), new L1Loss(), new QuantileLoss(), new LinfLoss()];
-    private static readonly IPenaltyUnit[] PenaltyUnits = [new L1Penalty(), new L2Penalty()];
+    private static readonly ILossUnit[] LossUnits = Units<ILossUnit>();
+    private static readonly IPenaltyUnit[] PenaltyUnits = Units<IPenaltyUnit>();
+    private static readonly IConstraintUnit[] ConstraintUnits = Units<IConstraintUnit>();
 
-    private static readonly IConstraintUnit[] ConstraintUnits =
-        [new RelationUnit(), new BoundsUnit(), new ValueUnit(), new ShapeUnit(), new ResidualsUnit()];
+    private static T[] Units<T>() => typeof(FitLowering).Assembly.GetTypes()
+        .Where(t => typeof(T).IsAssignableFrom(t) && t is { IsAbstract: false, IsInterface: false })
+        .OrderBy(t => t.FullName, StringComparer.Ordinal)
+        .Select(t => (T)Activator.CreateInstance(t)!)
+        .ToArray();
 
     /// <param name="forceProgram">Build the full program even where the closed form will solve it (for export).</param>
     public static LoweredFit Lower(FitSpecDocument spec, Design.Design design, bool forceProgram = false)
@@ -58,11 +62,12 @@ public static class FitLowering
         }
 
         var program = context.Builder.Build();
-        var problemClass = closedForm ? ProblemClass.ClosedForm : program.Class;
+        var problemClass = closedForm ? ProblemClass.ClosedForm : context.Strategy?.Class ?? program.Class;
         return new LoweredFit(
             spec, design, program, problemClass, context.Constraints, context.Notes,
             closedForm ? new LeastSquaresForm(context.RidgeRows, context.RidgeRaw) : null,
-            penaltyTargets);
+            penaltyTargets,
+            context.Strategy);
     }
 
     private static void CheckUnsupported(LoweringContext context, FitSpecDocument spec)
@@ -82,9 +87,10 @@ public static class FitLowering
 
         foreach (var c in spec.Constraints)
         {
-            if (c is ShapeConstraint { Shape: ShapeKind.Convex or ShapeKind.Concave } s)
+            if (!ConstraintUnits.Any(u => u.Handles(c)))
             {
-                context.Error(s.Pos, "constraints.kind", $"constraint kind '{s.Shape.ToString().ToLowerInvariant()}' is not supported yet");
+                var kind = c is ShapeConstraint s ? s.Shape.ToString().ToLowerInvariant() : c.GetType().Name;
+                context.Error(c.Pos, "constraints.kind", $"constraint kind '{kind}' is not supported yet");
             }
         }
     }

@@ -27,6 +27,17 @@ public sealed record ShapeCheck(ShapeKind Kind, string Input, double From, doubl
 /// </summary>
 public sealed record LeastSquaresForm(IReadOnlyList<Entry[]> RidgeRows, IReadOnlyList<(int Raw, double Sqrt)> RidgeRaw);
 
+/// <summary>
+/// A way of solving that one program solve does not cover (a sequence of QPs, a local method, support
+/// enumeration): set by the loss or penalty unit that needs it, recognised by the backend that runs it.
+/// With a strategy, Program holds everything but the part the strategy handles (e.g. the constraints and
+/// penalties without the loss).
+/// </summary>
+public interface ISolveStrategy
+{
+    ProblemClass Class { get; }
+}
+
 /// <summary>Stage 4's output: the program, and the map from its rows back to the user's items.</summary>
 public sealed record LoweredFit(
     FitSpecDocument Spec,
@@ -36,4 +47,5 @@ public sealed record LoweredFit(
     IReadOnlyList<LoweredConstraint> Constraints,
     IReadOnlyList<LoweringNote> Notes,
     LeastSquaresForm? ClosedForm,
-    IReadOnlyList<IReadOnlyList<int>> PenaltyTargets);
+    IReadOnlyList<IReadOnlyList<int>> PenaltyTargets,
+    ISolveStrategy? Strategy = null);

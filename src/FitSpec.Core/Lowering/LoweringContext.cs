@@ -26,6 +26,9 @@ public sealed class LoweringContext
 
     public List<LoweredConstraint> Constraints { get; } = [];
 
+    /// <summary>Set by a unit whose kind needs more than one program solve (see <see cref="ISolveStrategy"/>).</summary>
+    public ISolveStrategy? Strategy { get; set; }
+
     /// <summary>Set by the l2 loss when no constraint or non-ridge penalty needs the general QP.</summary>
     public bool BuildGramHessian { get; set; } = true;
 

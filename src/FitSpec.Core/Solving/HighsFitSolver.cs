@@ -7,7 +7,9 @@ namespace FitSpec.Solving;
 /// <summary>LP, QP and MILP through HiGHS; LPs go through their dual when that has fewer rows.</summary>
 internal sealed class HighsFitSolver : IFitSolver
 {
-    public bool CanSolve(LoweredFit fit, SolveOptions options) => true;
+    public int Priority => 1000;
+
+    public bool CanSolve(LoweredFit fit, SolveOptions options) => fit.Strategy is null;
 
     public Solution Solve(LoweredFit fit, SolveOptions options, CancellationToken cancellation)
     {

@@ -16,6 +16,8 @@ internal sealed class QrLeastSquares : IFitSolver
     /// <summary>Problems with rows × coefficients² up to this are also solved in double-double (milliseconds).</summary>
     public const long ExtendedPrecisionLimit = 20_000_000;
 
+    public int Priority => 0;
+
     public bool CanSolve(LoweredFit fit, SolveOptions options) => fit.ClosedForm is not null;
 
     public Solution Solve(LoweredFit fit, SolveOptions options, CancellationToken cancellation)

@@ -1,3 +1,5 @@
+using FitSpec.Lowering;
+
 namespace FitSpec.Solving;
 
 public enum SolveStatus
@@ -38,5 +40,30 @@ public sealed record Solution(
     string Message,
     double[]? Raw = null)
 {
+    /// <summary>For iterative methods: the KKT (first-order optimality) residual at the returned point.</summary>
+    public double? KktResidual { get; init; }
+
+    /// <summary>For local methods: the rows (0-based) treated as outliers.</summary>
+    public IReadOnlyList<int>? Outliers { get; init; }
+
+    /// <summary>For MILPs: the relative gap between the best point and the proven bound.</summary>
+    public double? MipGap { get; init; }
+
+    /// <summary>Whether the returned point provably minimises the fit (false for local methods).</summary>
+    public bool GlobalOptimum { get; init; } = true;
+
+    /// <summary>
+    /// The program this point and these duals belong to, when a backend solved a program other than the
+    /// lowered one (the last of a sequence, a re-solve on a chosen support). It keeps the lowered program's
+    /// variables and rows at their indices and may append more.
+    /// </summary>
+    public FitProgram? SolvedProgram { get; init; }
+
+    /// <summary>False when the solved program's objective is a model of the fit's objective, not equal to it.</summary>
+    public bool ObjectiveComparable { get; init; } = true;
+
+    /// <summary>Extra lowering notes from the solve (e.g. "12 Newton steps").</summary>
+    public IReadOnlyList<Lowering.LoweringNote> Notes { get; init; } = [];
+
     public bool HasPoint => X is not null;
 }

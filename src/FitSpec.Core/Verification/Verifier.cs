@@ -48,7 +48,7 @@ public static class Verifier
         }
         else
         {
-            var program = fit.Program;
+            var program = solution.SolvedProgram ?? fit.Program;
             solverObjective = program.Objective(x);
             if (solution.RowDual is { } y && solution.ColDual is { } z && !program.HasIntegers)
             {
@@ -66,8 +66,17 @@ public static class Verifier
             }
         }
 
+        if (solution.KktResidual is { } kkt)
+        {
+            stationarity = kkt;
+            if (kkt > Tolerance)
+            {
+                failures.Add($"KKT residual {kkt:G3} exceeds {Tolerance:G1}");
+            }
+        }
+
         var programObjective = solverObjective ?? ClosedFormObjective(fit, theta);
-        objectiveDiff = Math.Abs(programObjective - objective) / Math.Max(1, Math.Abs(objective));
+        objectiveDiff = solution.ObjectiveComparable ? Math.Abs(programObjective - objective) / Math.Max(1, Math.Abs(objective)) : null;
         if (objectiveDiff > Tolerance)
         {
             failures.Add($"objective recomputed from the data ({objective:G10}) differs from the program's ({programObjective:G10}) by {objectiveDiff:G3} (relative)");
@@ -86,7 +95,7 @@ public static class Verifier
         }
 
         var maxViolation = checks.Count == 0 ? 0 : checks.Max(c => c.Violation);
-        var verification = new Verification(objective, solverObjective ?? programObjective, objectiveDiff, maxViolation, dualObjective, gap, dualResidual, stationarity, failures.Count == 0, failures);
+        var verification = new Verification(objective, solution.ObjectiveComparable ? solverObjective ?? programObjective : null, objectiveDiff, maxViolation, dualObjective, gap, dualResidual, stationarity, failures.Count == 0, failures);
         return new Checked(beta, e, objective, metrics, checks, verification);
     }
 

@@ -11,7 +11,7 @@ internal sealed class ShapeUnit : IConstraintUnit
 {
     public const int DefaultGrid = 101;
 
-    public bool Handles(ConstraintSpec constraint) => constraint is ShapeConstraint;
+    public bool Handles(ConstraintSpec constraint) => constraint is ShapeConstraint { Shape: ShapeKind.Increasing or ShapeKind.Decreasing };
 
     public void Lower(LoweringContext context, ConstraintSpec constraint, int index)
     {

@@ -162,9 +162,9 @@ internal static class Commands
 
         var fit = lowered!;
         var size = fit.Class == ProblemClass.ClosedForm
-            ? $"{fit.Design.Rows} rows × {fit.Design.P} coefficients"
+            ? $"closed-form, {fit.Design.Rows} rows × {fit.Design.P} coefficients"
             : Describe(fit.Program);
-        Console.WriteLine($"{fit.Spec.Name}: ok: {FitRunner.ClassName(fit.Class)}, {size}");
+        Console.WriteLine($"{fit.Spec.Name}: ok: {size}");
         return 0;
     }
 

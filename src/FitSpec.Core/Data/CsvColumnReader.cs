@@ -21,7 +21,7 @@ internal static class CsvColumnReader
 {
     public static RawColumns Read(string path, string displayPath, char separator, Func<IReadOnlyList<string>, IReadOnlyList<string>> selectColumns, bool dropMissing, int maxRows)
     {
-        using var reader = Sep.Reader(o => o with { Sep = new Sep(separator), Unescape = true, DisableColCountCheck = false })
+        using var reader = Sep.Reader(o => o with { Sep = new Sep(separator), Unescape = true, DisableColCountCheck = true })
             .FromFile(path);
         var header = reader.Header.ColNames.ToArray();
         var names = selectColumns(header).Distinct(StringComparer.Ordinal).ToArray();
@@ -70,6 +70,11 @@ internal static class CsvColumnReader
             }
 
             var line = row.LineNumberFrom;
+            if (row.ColCount != header.Length)
+            {
+                throw new FitSpecException(new Diagnostic(displayPath, line, null, null, $"this row has {row.ColCount} fields but the header has {header.Length}; check for a stray or missing separator"));
+            }
+
             lines[count] = line;
             var rowMissing = false;
             for (var k = 0; k < names.Length; k++)

@@ -32,22 +32,23 @@ public static class TableLoader
         }
 
         var display = pathText.Value;
+        var errorPath = Path.Combine(Path.GetDirectoryName(spec.File) ?? "", pathText.Value);
         var sha = HashFile(full);
         var separator = full.EndsWith(".tsv", StringComparison.OrdinalIgnoreCase) ? '\t' : ',';
         RawColumns raw;
         try
         {
-            raw = CsvColumnReader.Read(full, display, separator, request.SelectColumns, data.Missing == MissingPolicy.Drop, MaxRows);
+            raw = CsvColumnReader.Read(full, errorPath, separator, request.SelectColumns, data.Missing == MissingPolicy.Drop, MaxRows);
         }
         catch (Exception e) when (e is IOException or UnauthorizedAccessException or InvalidDataException or FormatException or ArgumentException)
         {
-            throw new FitSpecException(new Diagnostic(display, null, null, null, $"cannot read data file: {e.Message}"));
+            throw new FitSpecException(new Diagnostic(errorPath, null, null, null, $"cannot read data file: {e.Message.ReplaceLineEndings(" ")}"));
         }
 
-        return Select(raw, full, display, sha, request.Filter, pathText);
+        return Select(raw, full, display, errorPath, sha, request.Filter, pathText);
     }
 
-    private static Table Select(RawColumns raw, string full, string display, string sha, Expr? filter, SpecText pathText)
+    private static Table Select(RawColumns raw, string full, string display, string errorPath, string sha, Expr? filter, SpecText pathText)
     {
         var n = raw.Lines.Length;
         var keep = new bool[n];
@@ -84,7 +85,7 @@ public static class TableLoader
         }
 
         var lines = used == n ? raw.Lines : Compact(raw.Lines, keep, used);
-        return new Table(full, display, sha, raw.Header, columns, lines, n, raw.MissingCount, droppedFilter);
+        return new Table(full, display, errorPath, sha, raw.Header, columns, lines, n, raw.MissingCount, droppedFilter);
     }
 
     private static T[] Compact<T>(T[] values, bool[] keep, int count)

@@ -6,6 +6,20 @@ namespace FitSpec.Design;
 /// <summary>A coefficient as the user sees it (raw basis), and the term that made it.</summary>
 public sealed record Coefficient(string Name, string TermKey, bool IsConstant);
 
+/// <summary>
+/// Where one model term's coefficients sit (First … First+Count-1) and which data columns its basis reads.
+/// For a spline term, its basis and the input expression the basis is evaluated at.
+/// </summary>
+public sealed record TermLayout(string Key, int First, int Count, IReadOnlyList<string> Inputs, BSplineBasis? Spline = null, Expr? SplineInput = null)
+{
+    /// <summary>The column a spline is directly in, when its input is a bare column.</summary>
+    public string? SplineColumn => SplineInput is ColumnExpr c ? c.Name : null;
+
+    /// <summary>The spline's input at a point that gives every column it reads.</summary>
+    public double SplineInputAt(IReadOnlyDictionary<string, double> point) =>
+        ExpressionEvaluator.EvaluateScalar(SplineInput ?? throw new InvalidOperationException($"term '{Key}' is not a spline"), name => point[name]);
+}
+
 /// <summary>One entry of a sparse row.</summary>
 public readonly record struct Entry(int Index, double Value);
 
@@ -27,9 +41,13 @@ public sealed record Design(
     IReadOnlyList<Entry[]> RawFromInternal,
     IReadOnlyList<string> Inputs,
     bool ConstantInSpan,
-    RawBasis Basis)
+    RawBasis Basis,
+    IReadOnlyList<TermLayout>? Layout = null)
 {
     public int Rows => Y.Length;
+
+    /// <summary>Each term's coefficients and inputs, in model order (empty for a design built without them).</summary>
+    public IReadOnlyList<TermLayout> Terms => Layout ?? [];
 
     public int P => Coefficients.Count;
 

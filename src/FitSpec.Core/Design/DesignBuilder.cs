@@ -26,7 +26,7 @@ public static class DesignBuilder
             {
                 if (!(w[i] > 0) || !double.IsFinite(w[i]))
                 {
-                    errors.Add(new Diagnostic(table.DisplayPath, table.Lines[i], null, spec.Data.Weight!.Value, $"weight must be a finite number > 0, got {w[i]}"));
+                    errors.Add(new Diagnostic(table.ErrorPath, table.Lines[i], null, spec.Data.Weight!.Value, $"weight must be a finite number > 0, got {w[i]}"));
                     if (errors.Count > 20)
                     {
                         break;
@@ -46,9 +46,12 @@ public static class DesignBuilder
         int? constantIndex = null;
         double constantValue = 1;
         var shifts = new List<(int First, int Degree, double Center, double Scale)>();
+        var layout = new List<TermLayout>();
 
         foreach (var term in model.Terms)
         {
+            var firstIndex = coefficients.Count;
+            BSplineBasis? spline = null;
             switch (term.Spec)
             {
                 case ExpressionTerm et:
@@ -131,11 +134,32 @@ public static class DesignBuilder
 
                 case SplineTerm st:
                     {
-                        var at = st.Pos;
-                        errors.Add(new Diagnostic(at.File, at.Line, at.Column, $"model.terms.{st.Key}", "term kind 'spline' is not supported yet"));
+                        // Splines are their own internal basis: their columns are bounded by 1 and sum to one.
+                        var root = term.Expression!.Root!;
+                        inputs.AddRange(term.Expression.Columns);
+                        var u = Finite(ExpressionEvaluator.Evaluate(root, Column, n), table, st.Key, st.Input.Value, errors);
+                        spline = SplineColumns.Basis(st, u, table, errors);
+                        if (spline is null)
+                        {
+                            break;
+                        }
+
+                        var columns = SplineColumns.Columns(spline, u);
+                        for (var j = 0; j < columns.Length; j++)
+                        {
+                            Add($"{st.Key}{j + 1}", st.Key, false, columns[j], columns[j]);
+                        }
+
+                        var captured = spline;
+                        basis.Add(input => SplineColumns.Jets(captured, ExpressionEvaluator.EvaluateJet(root, input)));
                         break;
                     }
             }
+
+            var termInputs = term.Spec is ColumnsTerm cols
+                ? Glob.Filter(table.Header, cols.Glob.Value).ToList()
+                : term.Expression?.Columns.ToList() ?? [];
+            layout.Add(new TermLayout(term.Spec.Key, firstIndex, coefficients.Count - firstIndex, termInputs, spline, spline is null ? null : term.Expression!.Root));
         }
 
         var names = coefficients.GroupBy(c => c.Name, StringComparer.Ordinal).Where(g => g.Count() > 1).Select(g => g.Key).ToList();
@@ -163,8 +187,9 @@ public static class DesignBuilder
             table, y, w, [.. internalCols], [.. rawCols], [.. rawLow], coefficients,
             rawMap.Select(r => r.ToArray()).ToList(),
             inputs.Distinct(StringComparer.Ordinal).ToList(),
-            ConstantInSpan: constantIndex is not null || SpanCheck.ContainsConstant([.. rawCols]),
-            new RawBasis(basis));
+            ConstantInSpan: constantIndex is not null || layout.Any(t => t.Spline is not null) || SpanCheck.ContainsConstant([.. rawCols]),
+            new RawBasis(basis),
+            layout);
         return design;
 
         void Add(string name, string key, bool isConstant, double[] internalCol, double[] rawCol)
@@ -284,7 +309,7 @@ public static class DesignBuilder
         {
             if (!double.IsFinite(values[i]))
             {
-                errors.Add(new Diagnostic(table.DisplayPath, table.Lines[i], null, field, $"'{text}' is not a finite number on this row ({values[i]})"));
+                errors.Add(new Diagnostic(table.ErrorPath, table.Lines[i], null, field, $"'{text}' is not a finite number on this row ({values[i]})"));
                 break;
             }
         }

@@ -27,11 +27,11 @@ public static class FitLowering
         var context = new LoweringContext(spec, design);
         var closedForm = spec.Loss.Kind == LossKind.L2
             && spec.Constraints.Count == 0
-            && spec.Penalties.All(p => p.Kind == PenaltyKind.L2)
+            && spec.Penalties.All(p => p.Kind == PenaltyKind.L2 || (p.Kind == PenaltyKind.Smoothness && !p.NormL1))
             && spec.Solve.Method is SolveMethod.Auto or SolveMethod.Qr;
         if (spec.Solve.Method == SolveMethod.Qr && !closedForm)
         {
-            context.Error(spec.Loss.Pos, "solve.method", "solve.method 'qr' solves only an l2 loss with no constraints and only l2 penalties; use auto, simplex or ipm");
+            context.Error(spec.Loss.Pos, "solve.method", "solve.method 'qr' solves only an l2 loss with no constraints and only l2 or (squared) smoothness penalties; use auto, simplex or ipm");
         }
 
         context.BuildGramHessian = !closedForm || forceProgram;
@@ -47,6 +47,11 @@ public static class FitLowering
                 var on = context.Resolve(p.On, p.Pos, "penalties.on");
                 penaltyTargets.Add(on);
                 PenaltyUnits.First(u => u.Kind == p.Kind).Lower(context, p, k, on);
+            }
+
+            if (context.Errors.Count == 0)
+            {
+                context.Errors.AddRange(Design.RankCheck.Diagnose(spec, design, penaltyTargets));
             }
 
             for (var k = 0; k < spec.Constraints.Count; k++)
@@ -67,7 +72,8 @@ public static class FitLowering
             spec, design, program, problemClass, context.Constraints, context.Notes,
             closedForm ? new LeastSquaresForm(context.RidgeRows, context.RidgeRaw) : null,
             penaltyTargets,
-            context.Strategy);
+            context.Strategy,
+            context.PreferredForm);
     }
 
     private static void CheckUnsupported(LoweringContext context, FitSpecDocument spec)

@@ -22,10 +22,10 @@ public sealed record LoweredConstraint(
 public sealed record ShapeCheck(ShapeKind Kind, string Input, double From, double To, int GridPoints, IReadOnlyDictionary<string, double> At);
 
 /// <summary>
-/// The unconstrained least-squares form: minimise Σ w (y - Xθ)² + Σ (ridge row · θ)². Ridge row k is
-/// √λ_k times row RidgeRaw[k].Raw of M, i.e. √λ_k β_j in the user's coefficients.
+/// The unconstrained least-squares form: minimise Σ w (y - Xθ)² + Σ (ridge row · θ)². Ridge row k over θ is
+/// RidgeRaw[k] (a row over the user's coefficients β: √λ β_j, or √λ times a k-th difference) written through M.
 /// </summary>
-public sealed record LeastSquaresForm(IReadOnlyList<Entry[]> RidgeRows, IReadOnlyList<(int Raw, double Sqrt)> RidgeRaw);
+public sealed record LeastSquaresForm(IReadOnlyList<Entry[]> RidgeRows, IReadOnlyList<Entry[]> RidgeRaw);
 
 /// <summary>
 /// A way of solving that one program solve does not cover (a sequence of QPs, a local method, support
@@ -48,4 +48,5 @@ public sealed record LoweredFit(
     IReadOnlyList<LoweringNote> Notes,
     LeastSquaresForm? ClosedForm,
     IReadOnlyList<IReadOnlyList<int>> PenaltyTargets,
-    ISolveStrategy? Strategy = null);
+    ISolveStrategy? Strategy = null,
+    LpForm PreferredForm = LpForm.Auto);

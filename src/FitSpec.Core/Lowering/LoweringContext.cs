@@ -26,6 +26,12 @@ public sealed class LoweringContext
 
     public List<LoweredConstraint> Constraints { get; } = [];
 
+    /// <summary>
+    /// The LP form the loss solves fastest in, by measurement (DEVELOPERS.md): the dual for the check losses
+    /// (l1, quantile), the primal for linf. Null: whichever has fewer rows.
+    /// </summary>
+    public FitSpec.Spec.LpForm PreferredForm { get; set; } = FitSpec.Spec.LpForm.Auto;
+
     /// <summary>Set by a unit whose kind needs more than one program solve (see <see cref="ISolveStrategy"/>).</summary>
     public ISolveStrategy? Strategy { get; set; }
 
@@ -35,8 +41,8 @@ public sealed class LoweringContext
     /// <summary>Ridge rows for the closed form (√λ · row of M), collected by the l2 penalty.</summary>
     public List<Entry[]> RidgeRows { get; } = [];
 
-    /// <summary>For each ridge row, the raw coefficient it penalises and √λ.</summary>
-    public List<(int Raw, double Sqrt)> RidgeRaw { get; } = [];
+    /// <summary>Each ridge row over the raw coefficients β (√λ β_j for l2, √λ times a difference for smoothness).</summary>
+    public List<Entry[]> RidgeRaw { get; } = [];
 
     public void Error(SourcePos pos, string? field, string message) =>
         Errors.Add(new Diagnostic(pos.File, pos.Line, pos.Column, field, message));

@@ -40,6 +40,9 @@ public sealed class ProgramBuilder
 
     public int RowCount => _rowLower.Count;
 
+    /// <summary>Whether any Hessian entry has been added so far (the program will be a QP, not an LP).</summary>
+    public bool HasHessian => _hessian.Count > 0;
+
     public int AddVar(string name, double lower, double upper, double cost, Origin origin, bool integer = false)
     {
         _varNames.Add(name);

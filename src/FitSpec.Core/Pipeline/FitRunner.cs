@@ -60,7 +60,7 @@ public static class FitRunner
             table = TableLoader.Load(spec, new DataRequest(model.ColumnsToRead, model.Filter?.Root));
             var design = DesignBuilder.Build(spec, model, table);
             var lowered = FitLowering.Lower(spec, design);
-            var options = new SolveOptions(spec.Solve.Method, spec.Solve.TimeLimit);
+            var options = new SolveOptions(spec.Solve.Method, spec.Solve.TimeLimit, (Formulation)(int)spec.Solve.Form);
             var solution = Solver.Solve(lowered, options, cancellation);
             return Assemble(spec, specSha, table, lowered, solution);
         }
@@ -98,18 +98,18 @@ public static class FitRunner
         if (solution.X is null)
         {
             var status = StatusName(solution.Status);
-            var detail = solution.Status switch
+            var detail = solution.StatusDetail ?? solution.Status switch
             {
                 SolveStatus.Infeasible => "the constraints contradict each other (or the data): no coefficients satisfy them all",
                 SolveStatus.Unbounded => "the objective can decrease without limit: some coefficient is not determined by the data or constraints",
                 SolveStatus.TimeLimit => "the time limit was reached before a solution was found",
                 _ => solution.Message,
             };
-            return new FitResult(spec.Name, status, detail, spec.File, spec.Title, spec.Description, statement, problem, null, [], data, null, [], [], null, [], lowered.Notes, provenance, []);
+            return new FitResult(spec.Name, status, detail, spec.File, spec.Title, spec.Description, statement, problem, null, [], data, null, [], [], null, [], [.. lowered.Notes, .. solution.Notes], provenance, []);
         }
 
         var check = Verifier.Check(lowered, solution);
-        var coefficients = design.Coefficients.Select((c, j) => new CoefficientValue(c.Name, check.Beta[j], c.TermKey)).ToList();
+        var coefficients = design.Coefficients.Select((c, j) => new CoefficientValue(c.Name, check.Beta[j], Statement.Basis(spec, c))).ToList();
         var values = new Dictionary<string, double>(StringComparer.Ordinal)
         {
             ["rmse"] = check.Metrics.Rmse,
@@ -140,13 +140,20 @@ public static class FitRunner
         }
         else
         {
-            resultStatus = StatusName(solution.Status);
+            // SPEC: a non-convex fit's point is a local optimum unless the backend proved it global.
+            resultStatus = solution.Status == SolveStatus.Optimal && !solution.GlobalOptimum ? "local-optimum" : StatusName(solution.Status);
+            statusDetail = solution.StatusDetail;
         }
 
+        // SPEC: non-convex fits report no duals.
+        var constraints = solution.GlobalOptimum ? check.Constraints : check.Constraints.Select(c => c with { Dual = null }).ToList();
         return new FitResult(
             spec.Name, resultStatus, statusDetail, spec.File, spec.Title, spec.Description, statement, problem,
-            check.Objective, coefficients, data, check.Metrics, check.Constraints, acceptance, check.Verification,
-            Largest(design, check.Residuals), lowered.Notes, provenance, []);
+            check.Objective, coefficients, data, check.Metrics, constraints, acceptance, check.Verification,
+            Largest(design, check.Residuals), [.. lowered.Notes, .. solution.Notes], provenance, [])
+        {
+            OutlierLines = solution.Outliers?.Select(i => design.Table.Lines[i]).ToList() ?? [],
+        };
     }
 
     private static IReadOnlyList<LargestResidual> Largest(Design.Design design, double[] e)

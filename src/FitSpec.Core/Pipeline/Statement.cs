@@ -46,13 +46,14 @@ internal static class Statement
         _ => t.Key,
     };
 
-    private static string Basis(FitSpecDocument spec, Design.Coefficient c)
+    internal static string Basis(FitSpecDocument spec, Design.Coefficient c)
     {
         var term = spec.Model.Terms.First(t => t.Key == c.TermKey);
         return term switch
         {
             ExpressionTerm e => e.Expression.Value.Length == 1 || !e.Expression.Value.Any(ch => " +-*/^".Contains(ch)) ? e.Expression.Value : $"({e.Expression.Value})",
             PolynomialTerm p => $"{p.Input.Value}^{c.Name[p.Key.Length..]}",
+            SplineTerm s => $"B{c.Name[s.Key.Length..]}({s.Input.Value})",
             _ => c.Name,
         };
     }

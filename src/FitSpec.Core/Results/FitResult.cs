@@ -27,6 +27,12 @@ public sealed record FitResult(
     Provenance Provenance,
     IReadOnlyList<ErrorEntry> Errors)
 {
+    /// <summary>
+    /// The observations a local method treated as outliers (truncated-l2: |e| above the cap), as data-file
+    /// line numbers (the header is line 1), in row order; empty for every other fit.
+    /// </summary>
+    public IReadOnlyList<int> OutlierLines { get; init; } = [];
+
     /// <summary>SPEC exit-code semantics for this fit alone.</summary>
     public int ExitCode => Status switch
     {

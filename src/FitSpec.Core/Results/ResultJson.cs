@@ -119,6 +119,14 @@ public static class ResultJson
             }
 
             w.WriteEndArray();
+            // Data-file lines of the observations a local method treated as outliers (truncated-l2).
+            w.WriteStartArray("outliers");
+            foreach (var line in r.OutlierLines)
+            {
+                w.WriteNumberValue(line);
+            }
+
+            w.WriteEndArray();
             w.WriteStartArray("lowering");
             foreach (var n in r.Lowering)
             {

@@ -18,7 +18,12 @@ internal sealed class HighsFitSolver : IFitSolver
         {
             Formulation.Dual => true,
             Formulation.Primal => false,
-            _ => LpDual.RowCount(program) < program.NumRows,
+            _ => fit.PreferredForm switch
+            {
+                Spec.LpForm.Dual => true,
+                Spec.LpForm.Primal => false,
+                _ => LpDual.RowCount(program) < program.NumRows,
+            },
         };
         var clock = Stopwatch.StartNew();
         if (!useDual)
@@ -33,7 +38,21 @@ internal sealed class HighsFitSolver : IFitSolver
         return Map(dualRun, x, rowDual, colDual, options, $"dual ({dual.Model.NumRow} rows instead of {program.NumRows})", clock);
     }
 
-    private static HighsResult Run(HighsModel model, SolveOptions options)
+    // QPs are first solved without HiGHS's default regularisation (which otherwise limits the answer to about
+    // six digits); if that run fails to finish, the default is tried.
+    internal static HighsResult Run(HighsModel model, SolveOptions options)
+    {
+        var quadratic = model.QValue is { Length: > 0 };
+        var result = RunOnce(model, options, exactQp: quadratic);
+        if (quadratic && result.ModelStatus is not (HighsModelStatus.Optimal or HighsModelStatus.Infeasible or HighsModelStatus.Unbounded or HighsModelStatus.TimeLimit))
+        {
+            result = RunOnce(model, options, exactQp: false);
+        }
+
+        return result;
+    }
+
+    private static HighsResult RunOnce(HighsModel model, SolveOptions options, bool exactQp)
     {
         using var highs = new HighsSolver();
         highs.SetOption("output_flag", false);
@@ -56,6 +75,11 @@ internal sealed class HighsFitSolver : IFitSolver
         // Tight tolerances: the answer is verified against the data afterwards.
         highs.SetOption("primal_feasibility_tolerance", 1e-9);
         highs.SetOption("dual_feasibility_tolerance", 1e-9);
+        if (exactQp)
+        {
+            highs.SetOption("qp_regularization_value", 0.0);
+        }
+
         highs.PassModel(model);
         return highs.Run();
     }

@@ -152,11 +152,15 @@ internal sealed class QrLeastSquares : IFitSolver
 
             for (var k = 0; k < ls.RidgeRaw.Count; k++)
             {
-                if (ls.RidgeRaw[k].Raw == j)
+                foreach (var e in ls.RidgeRaw[k])
                 {
-                    col[n + k] = ls.RidgeRaw[k].Sqrt;
-                    norm2 += ls.RidgeRaw[k].Sqrt * ls.RidgeRaw[k].Sqrt;
+                    if (e.Index == j)
+                    {
+                        col[n + k] += e.Value;
+                    }
                 }
+
+                norm2 += col[n + k].Hi * col[n + k].Hi;
             }
 
             // A power-of-two scale is exact, so it changes nothing but the exponents.

@@ -65,5 +65,11 @@ public sealed record Solution(
     /// <summary>Extra lowering notes from the solve (e.g. "12 Newton steps").</summary>
     public IReadOnlyList<Lowering.LoweringNote> Notes { get; init; } = [];
 
+    /// <summary>
+    /// The user-facing explanation of the status, when the backend has a more precise one than the generic
+    /// text (e.g. the evidence that no point satisfies a loss's domain).
+    /// </summary>
+    public string? StatusDetail { get; init; }
+
     public bool HasPoint => X is not null;
 }

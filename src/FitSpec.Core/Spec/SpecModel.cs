@@ -148,7 +148,15 @@ public enum SolveMethod
     Ipm,
 }
 
-public sealed record SolveSpec(SolveMethod Method, double? TimeLimit);
+/// <summary>Which form of an LP to solve: as lowered, its dual, or whichever has fewer rows (auto).</summary>
+public enum LpForm
+{
+    Auto,
+    Primal,
+    Dual,
+}
+
+public sealed record SolveSpec(SolveMethod Method, double? TimeLimit, LpForm Form = LpForm.Auto);
 
 public enum ReportFormat
 {

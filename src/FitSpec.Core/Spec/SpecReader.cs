@@ -16,7 +16,7 @@ public static partial class SpecReader
 
     private static readonly string[] DataKeys = ["path", "sqlite", "query", "filter", "weight", "missing"];
     private static readonly string[] ModelKeys = ["response", "terms"];
-    private static readonly string[] SolveKeys = ["method", "time-limit"];
+    private static readonly string[] SolveKeys = ["method", "time-limit", "formulation"];
     private static readonly string[] ReportKeys = ["formats", "accept", "templates"];
 
     /// <summary>Upper bound on spec size; a fit spec is a few kilobytes.</summary>
@@ -62,12 +62,17 @@ public static partial class SpecReader
             errors.Add(new Diagnostic(path, (int)e.Start.Line, (int)e.Start.Column, null, $"invalid YAML: {CleanYamlMessage(e)}"));
             return new(null, name, errors, bytes);
         }
-        catch (Exception e) when (e is InvalidOperationException or ArgumentException or System.Text.DecoderFallbackException)
+        catch (System.Text.DecoderFallbackException)
         {
-            // The YAML library reports some malformed input (unclosed flow collections, duplicate keys,
-            // invalid UTF-8) without a position.
-            var what = e is System.Text.DecoderFallbackException ? "the file is not valid UTF-8 text" : $"invalid YAML ({e.Message}); check brackets, quotes and duplicate keys";
-            errors.Add(new Diagnostic(path, 1, 1, null, what));
+            errors.Add(new Diagnostic(path, 1, 1, null, "the file is not valid UTF-8 text; save it as UTF-8"));
+            return new(null, name, errors, bytes);
+        }
+        catch (Exception e) when (e is InvalidOperationException or ArgumentException)
+        {
+            // The YAML library reports some malformed input (an unclosed '[' or '{') without a position:
+            // point at the last token it could read.
+            var at = LastGoodMark(bytes);
+            errors.Add(new Diagnostic(path, at.Line, at.Column, null, "invalid YAML near here: check for an unclosed '[' or '{', a stray quote, or a duplicate key"));
             return new(null, name, errors, bytes);
         }
 
@@ -86,9 +91,44 @@ public static partial class SpecReader
         return new(errors.Count == 0 ? doc : null, name, errors, bytes);
     }
 
+    private static (int Line, int Column) LastGoodMark(byte[] bytes)
+    {
+        var scanner = new Scanner(new StringReader(System.Text.Encoding.UTF8.GetString(bytes)));
+        (int, int) last = (1, 1);
+        try
+        {
+            while (scanner.MoveNext())
+            {
+                last = ((int)scanner.Current!.End.Line, (int)scanner.Current.End.Column);
+            }
+        }
+        catch (Exception e) when (e is YamlException or InvalidOperationException or ArgumentException)
+        {
+            // The last position read is what we report.
+        }
+
+        return last;
+    }
+
     private static YamlNode? LoadSingleDocument(string path, byte[] bytes, List<Diagnostic> errors)
     {
         var text = new System.Text.UTF8Encoding(false, true).GetString(bytes);
+        var lines = text.Split('\n');
+        for (var i = 0; i < lines.Length; i++)
+        {
+            var indent = lines[i].Length - lines[i].TrimStart(' ', '\t').Length;
+            var tab = lines[i].IndexOf('\t', StringComparison.Ordinal);
+            if (tab >= 0 && tab < indent)
+            {
+                errors.Add(new Diagnostic(path, i + 1, tab + 1, null, "a tab is used for indentation; YAML needs spaces"));
+            }
+        }
+
+        if (errors.Count > 0)
+        {
+            return null;
+        }
+
         var stream = new YamlStream();
         stream.Load(new StringReader(text));
         if (stream.Documents.Count == 0)
@@ -346,7 +386,26 @@ public static partial class SpecReader
             limit = seconds;
         }
 
-        return new SolveSpec(method, limit);
+        var form = LpForm.Auto;
+        if (e.TryGetValue("formulation", out var fo) && f.Text(fo.Value, "solve.formulation") is { } ft)
+        {
+            switch (ft.Value)
+            {
+                case "auto":
+                    break;
+                case "primal":
+                    form = LpForm.Primal;
+                    break;
+                case "dual":
+                    form = LpForm.Dual;
+                    break;
+                default:
+                    f.Error(ft.Pos, "solve.formulation", $"solve.formulation must be auto, primal or dual, got '{ft.Value}'");
+                    break;
+            }
+        }
+
+        return new SolveSpec(method, limit, form);
     }
 
     private static ReportSpec? ReadReport(YamlFields f, YamlNode node)

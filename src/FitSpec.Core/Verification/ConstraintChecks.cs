@@ -72,9 +72,9 @@ internal static class ConstraintChecks
             case ShapeConstraint s:
                 {
                     var shape = lc.Shape!;
-                    var (worst, size) = WorstSlope(design, shape, beta, shape.GridPoints);
+                    var (worst, size) = WorstDerivative(design, shape, beta, shape.GridPoints);
                     var finePoints = ((shape.GridPoints - 1) * 10) + 1;
-                    var (fineWorst, _) = WorstSlope(design, shape, beta, finePoints);
+                    var (fineWorst, _) = WorstDerivative(design, shape, beta, finePoints);
                     var scale = Math.Max(1, size);
                     var violation = Math.Max(0, -worst) / scale;
                     return Make(lc, s.Shape.ToString().ToLowerInvariant(), violation, worst / scale) with
@@ -96,11 +96,13 @@ internal static class ConstraintChecks
         }
     }
 
-    // The signed slope (positive = the wanted direction) at its worst grid point, and the slope's size.
-    private static (double Worst, double Size) WorstSlope(Design.Design design, ShapeCheck shape, double[] beta, int points)
+    // The signed first (monotone) or second (convex/concave) derivative, positive in the wanted direction, at
+    // its worst grid point, and the derivative's size.
+    private static (double Worst, double Size) WorstDerivative(Design.Design design, ShapeCheck shape, double[] beta, int points)
     {
         var point = new Dictionary<string, double>(shape.At, StringComparer.Ordinal);
-        var sign = shape.Kind == ShapeKind.Increasing ? 1.0 : -1.0;
+        var sign = ShapeUnit.Sign(shape.Kind);
+        var second = ShapeUnit.Order(shape.Kind) == 2;
         double worst = double.PositiveInfinity, size = 0;
         for (var k = 0; k < points; k++)
         {
@@ -109,8 +111,9 @@ internal static class ConstraintChecks
             double d = 0, s = 0;
             for (var j = 0; j < beta.Length; j++)
             {
-                d += phi[j].D1 * beta[j];
-                s += Math.Abs(phi[j].D1 * beta[j]);
+                var dj = second ? phi[j].D2 : phi[j].D1;
+                d += dj * beta[j];
+                s += Math.Abs(dj * beta[j]);
             }
 
             worst = Math.Min(worst, sign * d);

@@ -53,7 +53,10 @@ public static class Verifier
             if (solution.RowDual is { } y && solution.ColDual is { } z && !program.HasIntegers)
             {
                 (dualObjective, dualResidual) = Duality(program, x, y, z);
-                gap = Math.Abs(solverObjective.Value - dualObjective.Value) / Math.Max(1, Math.Abs(solverObjective.Value));
+                // The gap is a difference of sums whose terms can dwarf the objective (the QP model of a steep
+                // loss): relative to the objective, or to what rounding in those terms allows where that is more.
+                var terms = Math.Abs(program.QuadraticForm(x)) + Enumerable.Range(0, program.NumVars).Sum(j => Math.Abs(program.Cost[j] * x[j]));
+                gap = Math.Abs(solverObjective.Value - dualObjective.Value) / Math.Max(1, Math.Max(Math.Abs(solverObjective.Value), 1e-8 * terms));
                 if (gap > Tolerance)
                 {
                     failures.Add($"duality gap {gap:G3} exceeds {Tolerance:G1}");
@@ -91,6 +94,19 @@ public static class Verifier
             if (c.Violation > Tolerance)
             {
                 failures.Add($"constraint '{lc.Spec.Label}' is violated by {c.Violation:G3} (relative)");
+            }
+        }
+
+        // A count penalty is a hard limit: checked on the returned coefficients, where "non-zero" means exactly that.
+        for (var k = 0; k < fit.Spec.Penalties.Count; k++)
+        {
+            if (fit.Spec.Penalties[k] is { Kind: PenaltyKind.Count, Max: { } max })
+            {
+                var nonZero = fit.PenaltyTargets[k].Count(j => beta[j] != 0);
+                if (nonZero > max)
+                {
+                    failures.Add($"count penalty {k + 1}: {nonZero} coefficients are non-zero, more than max {max}");
+                }
             }
         }
 

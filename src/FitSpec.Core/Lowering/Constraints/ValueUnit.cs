@@ -10,7 +10,7 @@ internal sealed class ValueUnit : IConstraintUnit
     public void Lower(LoweringContext context, ConstraintSpec constraint, int index)
     {
         var c = (ValueConstraint)constraint;
-        if (PointInputs.Complete(context, c, c.At, null, 0) is not { } point)
+        if (PointInputs.Complete(context, c, c.At, null, 0) is not { } point || !SplineRange.Inside(context, c, point, "constraints.at"))
         {
             return;
         }

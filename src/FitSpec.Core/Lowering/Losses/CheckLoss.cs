@@ -30,7 +30,8 @@ internal static class CheckLoss
             b.AddRow($"r{i + 1}", design.Y[i], design.Y[i], entries, origin);
         }
 
-        context.Notes.Add(new LoweringNote("loss", label, $"LP: {design.Rows} residual rows, {2 * design.Rows} split variables (solved through the dual when smaller)"));
+        context.PreferredForm = Spec.LpForm.Dual;
+        context.Notes.Add(new LoweringNote("loss", label, $"LP: {design.Rows} residual rows, {2 * design.Rows} split variables; solved through its dual ({design.P} rows)"));
     }
 }
 

@@ -19,7 +19,7 @@ internal sealed class L2Penalty : IPenaltyUnit
             var m = context.RawRow(j);
             var sqrt = Math.Sqrt(lambda);
             context.RidgeRows.Add(m.Select(e => new Entry(e.Index, sqrt * e.Value)).ToArray());
-            context.RidgeRaw.Add((j, sqrt));
+            context.RidgeRaw.Add([new Entry(j, sqrt)]);
             foreach (var a in m)
             {
                 foreach (var c in m)

@@ -21,7 +21,7 @@ internal static class NewtonFits
     public static string Short(double x) => x.ToString("G3", CultureInfo.InvariantCulture);
 
     /// <summary>A solve that ended before any point: status, why, and how far it got.</summary>
-    public static Solution NoPoint(SolveStatus status, string message, string? detail, SubproblemRunner runner, IReadOnlyList<LoweringNote> notes) =>
+    public static Solution NoPoint(SolveStatus status, string message, string? detail, HighsRunner runner, IReadOnlyList<LoweringNote> notes) =>
         new(status, null, null, null, SolverName, Method, Formulation, runner.Seconds, runner.Solves, message)
         {
             StatusDetail = detail,
@@ -29,7 +29,7 @@ internal static class NewtonFits
         };
 
     /// <summary>Runs Newton's method from a start and turns its outcome into a solution.</summary>
-    public static Solution Run(LoweredFit fit, NewtonSequence newton, double[] start, string lossName, string startNote, SubproblemRunner runner)
+    public static Solution Run(LoweredFit fit, NewtonSequence newton, double[] start, string lossName, string startNote, HighsRunner runner)
     {
         var outcome = newton.Run(start);
         if (outcome.Final is not { } final)
@@ -82,7 +82,7 @@ internal sealed class LogBarrierSolver : IFitSolver
         ArgumentNullException.ThrowIfNull(fit);
         ArgumentNullException.ThrowIfNull(options);
         var limit = ((LogBarrierStrategy)fit.Strategy!).Limit;
-        var runner = new SubproblemRunner(options, cancellation);
+        var runner = new HighsRunner(options, cancellation);
         var program = fit.Program;
         var newton = new NewtonSequence(fit, new LogBarrierPhi(limit), runner);
         const string name = "log-barrier";
@@ -135,7 +135,7 @@ internal sealed class LpLossSolver : IFitSolver
         ArgumentNullException.ThrowIfNull(fit);
         ArgumentNullException.ThrowIfNull(options);
         var p = ((LpStrategy)fit.Strategy!).P;
-        var runner = new SubproblemRunner(options, cancellation);
+        var runner = new HighsRunner(options, cancellation);
         var program = fit.Program;
         var name = $"lp (p = {p.ToString(CultureInfo.InvariantCulture)})";
         var leastSquares = runner.Solve(Starts.LeastSquares(program, fit.Design));

@@ -28,10 +28,10 @@ internal sealed class NewtonSequence
 
     private readonly LoweredFit _fit;
     private readonly ISmoothLoss _loss;
-    private readonly SubproblemRunner _runner;
+    private readonly HighsRunner _runner;
     private readonly bool _dense;
 
-    public NewtonSequence(LoweredFit fit, ISmoothLoss loss, SubproblemRunner runner)
+    public NewtonSequence(LoweredFit fit, ISmoothLoss loss, HighsRunner runner)
     {
         _fit = fit;
         _loss = loss;
@@ -175,7 +175,7 @@ internal sealed class NewtonSequence
     }
 
     // Without constraints the QP's answer is the Newton step itself, solved directly; no multipliers.
-    private SubproblemResult? DenseAnswer(double[] x, double[] slope, double[] curvature)
+    private HighsRunResult? DenseAnswer(double[] x, double[] slope, double[] curvature)
     {
         if (DenseNewtonStep.Solve(_fit.Program, Design, x, slope, curvature) is not { } d)
         {
@@ -189,7 +189,7 @@ internal sealed class NewtonSequence
             next[j] = x[j] + d[j];
         }
 
-        return new SubproblemResult(SolveStatus.Optimal, next, [], new double[x.Length], Highs.Native.HighsModelStatus.Optimal);
+        return new HighsRunResult(SolveStatus.Optimal, next, [], new double[x.Length], Highs.Native.HighsModelStatus.Optimal);
     }
 
     // How much F can be off from rounding alone: ε|F| from the sum, and each residual's error (about ε|e|)

@@ -27,7 +27,7 @@ internal sealed class TruncatedL2Solver : IFitSolver
         ArgumentNullException.ThrowIfNull(fit);
         ArgumentNullException.ThrowIfNull(options);
         var cap = ((TruncatedL2Strategy)fit.Strategy!).Cap;
-        var runner = new SubproblemRunner(options, cancellation);
+        var runner = new HighsRunner(options, cancellation);
         var program = fit.Program;
         var design = fit.Design;
         var name = $"truncated-l2 (cap {cap.ToString(CultureInfo.InvariantCulture)})";
@@ -111,13 +111,13 @@ internal sealed class TruncatedL2Solver : IFitSolver
     private sealed record Run(
         double[] X, FitProgram Subproblem, double Objective, IReadOnlyList<int> Outliers, int Rounds, bool Stable, bool TimedOut, double Kkt, double Margin, string Start = "");
 
-    private static Run Alternate(LoweredFit fit, double cap, double[] start, SubproblemRunner runner)
+    private static Run Alternate(LoweredFit fit, double cap, double[] start, HighsRunner runner)
     {
         var design = fit.Design;
         var x = start;
         var inlier = Classify(Residuals(design, x), cap);
         FitProgram? sub = null;
-        SubproblemResult? answer = null;
+        HighsRunResult? answer = null;
         var rounds = 0;
         var stable = false;
         var timedOut = false;

@@ -42,12 +42,18 @@ internal sealed class SupportSolver : IFitSolver
             return new Solution(status, null, null, null, solver, "branch and cut (HiGHS MILP)", "primal", clock.Elapsed.TotalSeconds, run.SimplexIterations, $"HiGHS model status: {run.ModelStatus}")
             {
                 MipGap = run.HasPrimal ? run.MipGap : null,
+                StatusDetail = status == SolveStatus.Infeasible ? ForcedDetail(strategy) : null,
             };
         }
 
         // z is integral only to the MIP feasibility tolerance; rounding picks the support it meant.
         var support = strategy.Counted.Where(c => run.ColValue[c.Binary] > 0.5).Select(c => c.Coefficient).ToHashSet();
-        var polished = Polish(fit, strategy, support, Remaining(options, clock), cancellation);
+        // The polish is one LP on a few coefficients: even after a MILP that used up the time limit it gets up to a
+        // second, so that a time-limited fit still returns its best support's exact point.
+        var polishOptions = options.TimeLimitSeconds is { } limit
+            ? options with { TimeLimitSeconds = Math.Max(limit - clock.Elapsed.TotalSeconds, Math.Min(limit, 1)) }
+            : options;
+        var polished = Polish(fit, strategy, support, polishOptions, cancellation);
         var names = SupportNames(fit, support);
         var gap = run.MipGap;
         return polished.Solution with
@@ -103,10 +109,11 @@ internal sealed class SupportSolver : IFitSolver
         if (!double.IsFinite(best))
         {
             var status = incomplete > 0 ? SolveStatus.TimeLimit : statuses.Contains(SolveStatus.Error) ? SolveStatus.Error : SolveStatus.Infeasible;
-            var why = supports.Count == 0
-                ? $"more than {strategy.Max} coefficients have bounds that exclude 0"
-                : $"no support of at most {strategy.Max} coefficients gives a feasible QP";
-            return new Solution(status, null, null, null, solver, method, "primal", clock.Elapsed.TotalSeconds, supports.Count, why);
+            var why = ForcedDetail(strategy) ?? $"no support of at most {strategy.Max} coefficients gives a feasible QP";
+            return new Solution(status, null, null, null, solver, method, "primal", clock.Elapsed.TotalSeconds, supports.Count, why)
+            {
+                StatusDetail = status == SolveStatus.Infeasible ? why : null,
+            };
         }
 
         var tolerance = TieTolerance * Math.Max(1, Math.Abs(best));
@@ -175,6 +182,15 @@ internal sealed class SupportSolver : IFitSolver
         var solution = new HighsFitSolver().Solve(fit with { Program = program, Strategy = null }, options, cancellation);
         var raw = solution.X is { } x ? SupportProgram.Raw(fit.Design, x, support, strategy) : null;
         return (solution with { Raw = raw, SolvedProgram = program }, program);
+    }
+
+    // The one cause of infeasibility a count adds by itself: more coefficients forced non-zero than it allows.
+    private static string? ForcedDetail(CountStrategy strategy)
+    {
+        var forced = strategy.Counted.Where(c => c.AlwaysNonZero).Select(c => c.Name).ToList();
+        return forced.Count > strategy.Max
+            ? $"the count allows at most {strategy.Max} non-zero coefficients, but the bounds of {forced.Count} exclude 0 ({string.Join(", ", forced)})"
+            : null;
     }
 
     private static SolveOptions Remaining(SolveOptions options, Stopwatch clock) =>

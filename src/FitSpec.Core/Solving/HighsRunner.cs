@@ -2,22 +2,22 @@ using System.Diagnostics;
 using FitSpec.Lowering;
 using Highs.Native;
 
-namespace FitSpec.Solving.Sequential;
+namespace FitSpec.Solving;
 
-/// <summary>One subproblem's answer: HiGHS's status, the point and multipliers on the subproblem's variables and rows.</summary>
-internal sealed record SubproblemResult(SolveStatus Status, double[] X, double[]? RowDual, double[]? ColDual, HighsModelStatus ModelStatus);
+/// <summary>One program's answer: HiGHS's status, the point and multipliers on the program's variables and rows.</summary>
+internal sealed record HighsRunResult(SolveStatus Status, double[] X, double[]? RowDual, double[]? ColDual, HighsModelStatus ModelStatus, bool HasPrimal = true);
 
 /// <summary>
-/// Solves the subproblems of one sequential method with HiGHS, under one time budget for the whole
-/// sequence, and counts what it did. One instance per fit solve (not shared between fits).
+/// Solves programs with HiGHS — the one program of a fit, or each subproblem of a sequential method — under
+/// one time budget for the whole fit, and counts what it did. One instance per fit solve (not shared).
 /// </summary>
-internal sealed class SubproblemRunner
+internal sealed class HighsRunner
 {
     private readonly SolveOptions _options;
     private readonly CancellationToken _cancellation;
     private readonly Stopwatch _clock = Stopwatch.StartNew();
 
-    public SubproblemRunner(SolveOptions options, CancellationToken cancellation)
+    public HighsRunner(SolveOptions options, CancellationToken cancellation)
     {
         _options = options;
         _cancellation = cancellation;
@@ -29,6 +29,11 @@ internal sealed class SubproblemRunner
 
     public double Seconds => _clock.Elapsed.TotalSeconds;
 
+    /// <summary>Whether the last solve went through the LP dual, and how many rows that had.</summary>
+    public bool UsedDual { get; private set; }
+
+    public int DualRows { get; private set; }
+
     /// <summary>True once the fit's time limit is spent.</summary>
     public bool OutOfTime => _options.TimeLimitSeconds is { } limit && Seconds >= limit;
 
@@ -37,10 +42,11 @@ internal sealed class SubproblemRunner
     /// For an LP: whether to solve it through its dual (the l1 start: yes; the minimax LPs: no, being faster as
     /// they are); null for whichever has fewer rows. The user's solve.form overrides it.
     /// </param>
-    public SubproblemResult Solve(FitProgram program, bool? viaDual = null)
+    public HighsRunResult Solve(FitProgram program, bool? viaDual = null)
     {
         _cancellation.ThrowIfCancellationRequested();
         Solves++;
+        UsedDual = false;
         var useDual = program.Class == ProblemClass.LP && _options.Formulation switch
         {
             Formulation.Dual => true,
@@ -54,7 +60,9 @@ internal sealed class SubproblemRunner
             if (run.ModelStatus == HighsModelStatus.Optimal)
             {
                 var (x, rowDual, colDual) = dual.Recover(run);
-                return Map(run, x, rowDual, colDual);
+                UsedDual = true;
+                DualRows = dual.Model.NumRow;
+                return Map(run, x, rowDual, colDual) with { HasPrimal = true };
             }
 
             // The dual's status says less about the primal (an infeasible dual leaves the primal unbounded or
@@ -76,7 +84,7 @@ internal sealed class SubproblemRunner
         catch (InvalidOperationException)
         {
             // HiGHS refuses a model whose numbers it cannot take (the binding reports it this way).
-            return new SubproblemResult(SolveStatus.Error, [], null, null, HighsModelStatus.ModelError);
+            return new HighsRunResult(SolveStatus.Error, [], null, null, HighsModelStatus.ModelError);
         }
 
         return Map(direct, direct.ColValue, direct.RowDual.Select(y => y / sigma).ToArray(), direct.ColDual.Select(z => z / sigma).ToArray());
@@ -111,9 +119,110 @@ internal sealed class SubproblemRunner
             return result;
         }
 
+        var proximal = Proximal(program, model);
+        if (proximal is not null)
+        {
+            return proximal;
+        }
+
         var regularised = RunOnce(model, isLp, exactQp: false);
         var other = regularised.ModelStatus == HighsModelStatus.Optimal ? Stationarity(program, regularised) : double.PositiveInfinity;
         return other < residual || result.ModelStatus != HighsModelStatus.Optimal ? regularised : result;
+    }
+
+    // Proximal-point iterations: min f(x) + ρ/2‖x − x_k‖², each strictly convex (so HiGHS does not stop at its
+    // start), converging to the exact minimiser of f as the centre moves; stop when f's own KKT holds.
+    private HighsResult? Proximal(FitProgram program, HighsModel model)
+    {
+        var n = program.NumVars;
+        double diag = 1;
+        for (var j = 0; j < program.QStart.Length - 1; j++)
+        {
+            for (var k = program.QStart[j]; k < program.QStart[j + 1]; k++)
+            {
+                if (program.QIndex[k] == j)
+                {
+                    diag = Math.Max(diag, Math.Abs(program.QValue[k]));
+                }
+            }
+        }
+
+        var rho = 1e-3 * diag;
+        var center = new double[n];
+        HighsResult? last = null;
+        for (var iteration = 0; iteration < ProximalIterations && !OutOfTime; iteration++)
+        {
+            var shifted = ProximalModel(program, model, rho, center);
+            var run = RunOnce(shifted, isLp: false, exactQp: true);
+            if (run.ModelStatus != HighsModelStatus.Optimal)
+            {
+                return last;
+            }
+
+            last = run;
+            Array.Copy(run.ColValue, center, n);
+            if (Stationarity(program, run) <= 1e-9)
+            {
+                return run;
+            }
+        }
+
+        return last is not null && Stationarity(program, last) <= 1e-7 ? last : null;
+    }
+
+    private const int ProximalIterations = 60;
+
+    private static HighsModel ProximalModel(FitProgram program, HighsModel model, double rho, double[] center)
+    {
+        // Add ρ to every diagonal entry of Q (inserting missing diagonals) and −ρ x_k to the cost.
+        var n = program.NumVars;
+        var start = new int[n + 1];
+        var index = new List<int>(program.QValue.Length + n);
+        var value = new List<double>(program.QValue.Length + n);
+        for (var j = 0; j < n; j++)
+        {
+            var hasDiagonal = false;
+            if (program.QStart.Length > 0)
+            {
+                for (var k = program.QStart[j]; k < program.QStart[j + 1]; k++)
+                {
+                    var i = program.QIndex[k];
+                    var v = program.QValue[k];
+                    if (i == j)
+                    {
+                        v += rho;
+                        hasDiagonal = true;
+                    }
+
+                    index.Add(i);
+                    value.Add(v);
+                }
+            }
+
+            if (!hasDiagonal)
+            {
+                // Lower triangle column-wise: the diagonal is the smallest row index of column j.
+                var at = start[j];
+                index.Insert(at, j);
+                value.Insert(at, rho);
+            }
+
+            start[j + 1] = index.Count;
+        }
+
+        var cost = new double[n];
+        for (var j = 0; j < n; j++)
+        {
+            cost[j] = model.ColCost[j] - (rho * center[j]);
+        }
+
+        var offset = model.Offset;
+        for (var j = 0; j < n; j++)
+        {
+            offset += 0.5 * rho * center[j] * center[j];
+        }
+
+        return model with { ColCost = cost, QStart = start, QIndex = [.. index], QValue = [.. value], Offset = offset };
     }
 
     // ‖c + Qx − A'y − z‖∞ of the QP as HiGHS solved it, relative to max(1, |c_j| + |(Qx)_j|).
@@ -175,7 +284,7 @@ internal sealed class SubproblemRunner
         return run;
     }
 
-    private static SubproblemResult Map(HighsResult run, double[] x, double[] rowDual, double[] colDual)
+    private static HighsRunResult Map(HighsResult run, double[] x, double[] rowDual, double[] colDual)
     {
         var status = run.ModelStatus switch
         {
@@ -186,6 +295,6 @@ internal sealed class SubproblemRunner
             _ => SolveStatus.Error,
         };
         var hasDual = status == SolveStatus.Optimal && run.HasDual;
-        return new SubproblemResult(status, x, hasDual ? rowDual : null, hasDual ? colDual : null, run.ModelStatus);
+        return new HighsRunResult(status, x, hasDual ? rowDual : null, hasDual ? colDual : null, run.ModelStatus, run.HasPrimal);
     }
 }

@@ -24,7 +24,8 @@ public sealed record TermLayout(string Key, int First, int Count, IReadOnlyList<
 public readonly record struct Entry(int Index, double Value);
 
 /// <summary>
-/// The numbers a fit is made of. X holds the internal basis (polynomials centred and scaled), one array per
+/// The numbers a fit is made of. X holds the internal basis (polynomials centred and scaled; splines are their
+/// own internal basis), one array per
 /// internal coefficient θ; RawX holds the raw basis (the same arrays where a term is not transformed) and
 /// RawXLow the rounding error of computed raw columns such as powers (null where RawX is exact). The
 /// user's raw coefficients are β = M θ, with M given row by row in RawFromInternal (identity rows for plain

@@ -6,7 +6,8 @@ namespace FitSpec.Lowering.Constraints;
 /// Shape through a spline's coefficients. The k-th derivative of Σ s_i B_{i,d} is Σ s⁽ᵏ⁾_i B_{i,d-k}, with
 /// s⁽⁰⁾ = s and s⁽ᵖ⁾_i = (d-p+1) (s⁽ᵖ⁻¹⁾_i - s⁽ᵖ⁻¹⁾_{i-1}) / (u_{i+d-p+1} - u_i); B-splines are non-negative,
 /// so s⁽ᵏ⁾_i ≥ 0 for every i whose B_{i,d-k} is non-zero somewhere in the range makes the derivative ≥ 0 on
-/// all of it (sufficient; exact where the derivative is piecewise linear or constant). For k = 1 these are
+/// all of it (sufficient; necessary too when d ≤ k + 1 and the range ends at knots, since a piecewise constant
+/// or linear derivative is non-negative exactly when its B-spline coefficients are). For k = 1 these are
 /// the scaled first differences, for k = 2 the condition that (s_{i+1} - s_i) / (u_{i+d+1} - u_{i+1}) does not
 /// decrease. When d = k - 1 the (k-1)-th derivative is piecewise constant and its jumps at the knots in the
 /// range are what must not be negative.

@@ -191,7 +191,8 @@ public static class ResultJson
         Num(w, "dual_objective", v.DualObjective);
         Num(w, "duality_gap", v.DualityGap);
         Num(w, "dual_residual", v.DualResidual);
-        Num(w, "normal_equation_residual", v.Stationarity);
+        Num(w, "optimality_residual", v.Stationarity);
+        w.WriteString("optimality_residual_kind", v.StationarityKind);
         w.WriteBoolean("passed", v.Passed);
         Strings(w, "failures", v.Failures);
         w.WriteEndObject();

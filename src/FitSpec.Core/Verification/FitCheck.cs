@@ -24,7 +24,11 @@ public sealed record Verification(
     double? DualResidual,
     double? Stationarity,
     bool Passed,
-    IReadOnlyList<string> Failures);
+    IReadOnlyList<string> Failures)
+{
+    /// <summary>What Stationarity measures: the normal equations (closed form) or the KKT conditions (iterative).</summary>
+    public string StationarityKind { get; init; } = "Normal-equation residual";
+}
 
 /// <summary>Metrics over the unweighted residuals of the rows used.</summary>
 public sealed record Metrics(int Observations, double Rmse, double Mae, double MaxAbsResidual, double R2, double? ResidualSd);

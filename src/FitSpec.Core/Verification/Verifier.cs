@@ -111,7 +111,10 @@ public static class Verifier
         }
 
         var maxViolation = checks.Count == 0 ? 0 : checks.Max(c => c.Violation);
-        var verification = new Verification(objective, solution.ObjectiveComparable ? solverObjective ?? programObjective : null, objectiveDiff, maxViolation, dualObjective, gap, dualResidual, stationarity, failures.Count == 0, failures);
+        var verification = new Verification(objective, solution.ObjectiveComparable ? solverObjective ?? programObjective : null, objectiveDiff, maxViolation, dualObjective, gap, dualResidual, stationarity, failures.Count == 0, failures)
+        {
+            StationarityKind = solution.KktResidual is null ? "Normal-equation residual" : "KKT residual",
+        };
         return new Checked(beta, e, objective, metrics, checks, verification);
     }
 

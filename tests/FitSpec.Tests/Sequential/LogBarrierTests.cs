@@ -45,7 +45,7 @@ public sealed partial class LogBarrierTests
 
         Assert.True(Math.Abs(g0) <= 1e-9 * m0, $"dF/db0 = {g0} (scale {m0})");
         Assert.True(Math.Abs(g1 - mu) <= 1e-9 * m1, $"dF/db1 = {g1}, dual {mu} (scale {m1})");
-        Assert.True(json.GetProperty("verification").GetProperty("normal_equation_residual").GetDouble() <= 1e-9);
+        Assert.True(json.GetProperty("verification").GetProperty("optimality_residual").GetDouble() <= 1e-9);
     }
 
     [Fact]

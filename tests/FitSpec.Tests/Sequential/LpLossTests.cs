@@ -51,7 +51,7 @@ public sealed class LpLossTests
         using var fits = new SequentialFits(["x", "y"], rows);
         var (_, json) = fits.Run("lpc", LineModel + "\nloss: {kind: lp, p: 1.5}\nconstraints:\n  - \"b1 <= 0.75\"");
         Assert.Equal("optimal", Status(json));
-        var kkt = json.GetProperty("verification").GetProperty("normal_equation_residual").GetDouble();
+        var kkt = json.GetProperty("verification").GetProperty("optimality_residual").GetDouble();
         Assert.True(kkt <= 1e-9, Describe(json));
         var constraint = json.GetProperty("constraints")[0];
         Assert.True(constraint.GetProperty("active").GetBoolean());

@@ -163,7 +163,7 @@ internal static class Commands
         var fit = lowered!;
         var size = fit.Class == ProblemClass.ClosedForm
             ? $"closed-form, {fit.Design.Rows} rows × {fit.Design.P} coefficients"
-            : Describe(fit.Program);
+            : $"{FitRunner.ClassName(fit.Class)}, {Size(fit.Program)}";
         Console.WriteLine($"{fit.Spec.Name}: ok: {size}");
         return 0;
     }
@@ -190,8 +190,10 @@ internal static class Commands
         }
     }
 
-    private static string Describe(FitProgram p) =>
-        $"{p.Class}, {p.NumVars} variables, {p.NumRows} rows, {p.NonZeros} non-zeros" + (p.HasQuadratic ? $", {p.QValue.Length} Hessian entries" : "");
+    private static string Describe(FitProgram p) => $"{p.Class}, {Size(p)}";
+
+    private static string Size(FitProgram p) =>
+        $"{p.NumVars} variables, {p.NumRows} rows, {p.NonZeros} non-zeros" + (p.HasQuadratic ? $", {p.QValue.Length} Hessian entries" : "");
 
     private static void PrintErrors(IEnumerable<Diagnostic> errors)
     {

@@ -47,6 +47,23 @@ public sealed class LoweringContext
     public void Error(SourcePos pos, string? field, string message) =>
         Errors.Add(new Diagnostic(pos.File, pos.Line, pos.Column, field, message));
 
+    /// <summary>
+    /// Adds the residual row of observation i: x_i'θ + Σ extras = y_i, where the extras are the loss's own
+    /// variables that take up the residual (split parts, bands, quadratic parts).
+    /// </summary>
+    public int AddResidualRow(int i, ReadOnlySpan<Entry> extras, Origin origin)
+    {
+        var p = Design.P;
+        var entries = new Entry[p + extras.Length];
+        for (var j = 0; j < p; j++)
+        {
+            entries[j] = new Entry(j, Design.X[j][i]);
+        }
+
+        extras.CopyTo(entries.AsSpan(p));
+        return Builder.AddRow($"r{i + 1}", Design.Y[i], Design.Y[i], entries, origin);
+    }
+
     /// <summary>Row j of M (β_j over θ).</summary>
     public Entry[] RawRow(int j) => Design.RawFromInternal[j];
 

@@ -90,7 +90,8 @@ public static class FitRunner
             isClosed ? design.P : program.NumVars,
             isClosed ? design.Rows + (lowered.ClosedForm?.RidgeRows.Count ?? 0) : program.NumRows,
             isClosed ? design.Rows * design.P : program.NonZeros,
-            solution.Solver, solution.Method, solution.Formulation, solution.Seconds, solution.Iterations);
+            solution.Solver, solution.Method, solution.Formulation, solution.Seconds, solution.Iterations)
+        { MipGap = solution.MipGap };
         var provenance = MakeProvenance(specSha, table.Sha256);
         var data = DataOf(table);
         var statement = Statement.Describe(spec, design, lowered.PenaltyTargets);

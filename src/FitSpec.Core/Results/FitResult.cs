@@ -62,7 +62,11 @@ public sealed record ProblemInfo(
     string Method,
     string Formulation,
     double SolveSeconds,
-    long Iterations);
+    long Iterations)
+{
+    /// <summary>For MILPs: HiGHS's relative gap between the incumbent and the proven bound.</summary>
+    public double? MipGap { get; init; }
+}
 
 public sealed record CoefficientValue(string Name, double Value, string Term);
 

@@ -33,6 +33,11 @@ public static class ResultJson
                 w.WriteString("formulation", p.Formulation);
                 Num(w, "solve_seconds", Math.Round(p.SolveSeconds, 6));
                 w.WriteNumber("iterations", p.Iterations);
+                if (p.MipGap is { } gap)
+                {
+                    Num(w, "mip_gap", gap);
+                }
+
                 w.WriteEndObject();
             }
 

@@ -13,21 +13,12 @@ internal static class CheckLoss
         var design = context.Design;
         var b = context.Builder;
         var origin = new Origin(OriginKind.Loss, 0);
-        var p = design.P;
-        var entries = new Entry[p + 2];
         for (var i = 0; i < design.Rows; i++)
         {
             var w = design.Weight(i);
             var u = b.AddVar($"u{i + 1}", 0, double.PositiveInfinity, w * above, origin);
             var v = b.AddVar($"v{i + 1}", 0, double.PositiveInfinity, w * below, origin);
-            for (var j = 0; j < p; j++)
-            {
-                entries[j] = new Entry(j, design.X[j][i]);
-            }
-
-            entries[p] = new Entry(u, 1);
-            entries[p + 1] = new Entry(v, -1);
-            b.AddRow($"r{i + 1}", design.Y[i], design.Y[i], entries, origin);
+            context.AddResidualRow(i, [new Entry(u, 1), new Entry(v, -1)], origin);
         }
 
         context.PreferredForm = Spec.LpForm.Dual;

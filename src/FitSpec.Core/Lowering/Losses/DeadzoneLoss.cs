@@ -19,23 +19,13 @@ internal sealed class DeadzoneLoss : ILossUnit
         var design = context.Design;
         var b = context.Builder;
         var origin = new Origin(OriginKind.Loss, 0);
-        var p = design.P;
-        var entries = new Entry[p + 3];
         for (var i = 0; i < design.Rows; i++)
         {
             var w = design.Weight(i);
             var d = b.AddVar($"d{i + 1}", -a, a, 0, origin);
             var u = b.AddVar($"u{i + 1}", 0, double.PositiveInfinity, w, origin);
             var v = b.AddVar($"v{i + 1}", 0, double.PositiveInfinity, w, origin);
-            for (var j = 0; j < p; j++)
-            {
-                entries[j] = new Entry(j, design.X[j][i]);
-            }
-
-            entries[p] = new Entry(d, 1);
-            entries[p + 1] = new Entry(u, 1);
-            entries[p + 2] = new Entry(v, -1);
-            b.AddRow($"r{i + 1}", design.Y[i], design.Y[i], entries, origin);
+            context.AddResidualRow(i, [new Entry(d, 1), new Entry(u, 1), new Entry(v, -1)], origin);
         }
 
         context.Notes.Add(new LoweringNote("loss", $"deadzone (width {a})", $"LP: {design.Rows} residual rows; a free band variable |d| ≤ {a} and two costed tails per row"));

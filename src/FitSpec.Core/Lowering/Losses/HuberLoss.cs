@@ -19,8 +19,6 @@ internal sealed class HuberLoss : ILossUnit
         var design = context.Design;
         var b = context.Builder;
         var origin = new Origin(OriginKind.Loss, 0);
-        var p = design.P;
-        var entries = new Entry[p + 3];
         for (var i = 0; i < design.Rows; i++)
         {
             var w = design.Weight(i);
@@ -28,15 +26,7 @@ internal sealed class HuberLoss : ILossUnit
             var s = b.AddVar($"u{i + 1}", 0, double.PositiveInfinity, w * 2 * m, origin);
             var t = b.AddVar($"v{i + 1}", 0, double.PositiveInfinity, w * 2 * m, origin);
             b.AddHessian(u, u, 2 * w);
-            for (var j = 0; j < p; j++)
-            {
-                entries[j] = new Entry(j, design.X[j][i]);
-            }
-
-            entries[p] = new Entry(u, 1);
-            entries[p + 1] = new Entry(s, 1);
-            entries[p + 2] = new Entry(t, -1);
-            b.AddRow($"r{i + 1}", design.Y[i], design.Y[i], entries, origin);
+            context.AddResidualRow(i, [new Entry(u, 1), new Entry(s, 1), new Entry(t, -1)], origin);
         }
 
         context.Notes.Add(new LoweringNote("loss", $"huber (width {m})", $"QP: {design.Rows} residual rows, a quadratic part per row and two linear tails (r² inside ±{m}, slope 2·{m} outside)"));

@@ -119,6 +119,42 @@ public sealed class HighsSolver : IDisposable
             simplex, ipm, qp, mipGap, primalStatus == 2, dualStatus == 2);
     }
 
+    /// <summary>The basis status of every column and row after a simplex run (HiGHS's codes).</summary>
+    public unsafe (int[] Columns, int[] Rows) GetBasis()
+    {
+        var model = _model ?? throw new InvalidOperationException("PassModel first.");
+        var cols = new int[model.NumCol];
+        var rows = new int[Math.Max(1, model.NumRow)];
+        fixed (int* c = cols, r = rows)
+        {
+            Check(NativeMethods.Highs_getBasis(H, c, r), "Highs_getBasis");
+        }
+
+        return (cols, rows[..model.NumRow]);
+    }
+
+    /// <summary>Starts the next run from this basis (e.g. an LP's, for a QP with the same rows).</summary>
+    public unsafe void SetBasis(int[] columns, int[] rows)
+    {
+        ArgumentNullException.ThrowIfNull(columns);
+        ArgumentNullException.ThrowIfNull(rows);
+        var r = rows.Length == 0 ? [0] : rows;
+        fixed (int* c = columns, rp = r)
+        {
+            Check(NativeMethods.Highs_setBasis(H, c, rp), "Highs_setBasis");
+        }
+    }
+
+    /// <summary>Offers a primal point as the start of the next run.</summary>
+    public unsafe void SetSolution(double[] columnValues)
+    {
+        ArgumentNullException.ThrowIfNull(columnValues);
+        fixed (double* c = columnValues)
+        {
+            Check(NativeMethods.Highs_setSolution(H, c, null, null, null), "Highs_setSolution");
+        }
+    }
+
     /// <summary>Writes the passed model with HiGHS's own writer; the extension picks the format (.mps, .lp).</summary>
     public void WriteModel(string path) => Check(NativeMethods.Highs_writeModel(H, path), "Highs_writeModel");
 

@@ -98,4 +98,13 @@ internal static partial class NativeMethods
 
     [LibraryImport(Library, StringMarshalling = StringMarshalling.Utf8)]
     internal static partial int Highs_writeModel(IntPtr highs, string filename);
+
+    [LibraryImport(Library)]
+    internal static unsafe partial int Highs_getBasis(IntPtr highs, int* colStatus, int* rowStatus);
+
+    [LibraryImport(Library)]
+    internal static unsafe partial int Highs_setBasis(IntPtr highs, int* colStatus, int* rowStatus);
+
+    [LibraryImport(Library)]
+    internal static unsafe partial int Highs_setSolution(IntPtr highs, double* colValue, double* rowValue, double* colDual, double* rowDual);
 }

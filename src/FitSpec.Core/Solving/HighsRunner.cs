@@ -76,10 +76,17 @@ internal sealed class HighsRunner
             QValue = program.QValue.Select(q => sigma * q).ToArray(),
             Offset = sigma * program.Offset,
         };
-        HighsResult direct;
+        HighsResult? direct = null;
         try
         {
-            direct = Run(HighsModels.From(scaled), program.Class == ProblemClass.LP, scaled);
+            // QPs start from their equality rows and take inequality rows as they become violated: HiGHS's
+            // QP solver can fail at its start when many inequality rows are present but not binding.
+            if (program.HasQuadratic && HasInequalityRows(program))
+            {
+                direct = RowGeneration(scaled);
+            }
+
+            direct ??= Run(HighsModels.From(scaled), program.Class == ProblemClass.LP, scaled);
         }
         catch (InvalidOperationException)
         {
@@ -88,6 +95,108 @@ internal sealed class HighsRunner
         }
 
         return Map(direct, direct.ColValue, direct.RowDual.Select(y => y / sigma).ToArray(), direct.ColDual.Select(z => z / sigma).ToArray());
+    }
+
+    // Row generation: solving with the equality rows only and adding each inequality row once it is violated
+    // gives the same optimum (a relaxation whose answer is feasible is optimal; every fit objective is
+    // bounded below, so the relaxations are bounded); rows never added carry a zero dual.
+    private static bool HasInequalityRows(FitProgram program)
+    {
+        for (var r = 0; r < program.NumRows; r++)
+        {
+            if (program.RowLower[r] != program.RowUpper[r])
+            {
+                return true;
+            }
+        }
+
+        return false;
+    }
+
+    private HighsResult? RowGeneration(FitProgram program)
+    {
+        var m = program.NumRows;
+        var active = new bool[m];
+        for (var r = 0; r < m; r++)
+        {
+            active[r] = program.RowLower[r] == program.RowUpper[r];
+        }
+
+        for (var round = 0; round < 100 && !OutOfTime; round++)
+        {
+            var rows = Enumerable.Range(0, m).Where(r => active[r]).ToArray();
+            var sub = Restrict(program, rows);
+            var run = Run(HighsModels.From(sub), isLp: false, sub);
+            if (run.ModelStatus != HighsModelStatus.Optimal)
+            {
+                return null;
+            }
+
+            var activity = program.RowActivity(run.ColValue);
+            var added = false;
+            for (var r = 0; r < m; r++)
+            {
+                var tolerance = 1e-9 * Math.Max(1, Math.Abs(activity[r]));
+                if (!active[r] && (activity[r] < program.RowLower[r] - tolerance || activity[r] > program.RowUpper[r] + tolerance))
+                {
+                    active[r] = true;
+                    added = true;
+                }
+            }
+
+            if (!added)
+            {
+                var rowDual = new double[m];
+                var rowValue = new double[m];
+                for (var k = 0; k < rows.Length; k++)
+                {
+                    rowDual[rows[k]] = run.RowDual[k];
+                }
+
+                Array.Copy(activity, rowValue, m);
+                return run with { RowDual = rowDual, RowValue = rowValue };
+            }
+        }
+
+        return null;
+    }
+
+    private static FitProgram Restrict(FitProgram p, int[] rows)
+    {
+        var newIndex = new int[p.NumRows];
+        Array.Fill(newIndex, -1);
+        for (var k = 0; k < rows.Length; k++)
+        {
+            newIndex[rows[k]] = k;
+        }
+
+        var start = new int[p.NumVars + 1];
+        var index = new List<int>();
+        var value = new List<double>();
+        for (var j = 0; j < p.NumVars; j++)
+        {
+            for (var k = p.ColStart[j]; k < p.ColStart[j + 1]; k++)
+            {
+                if (newIndex[p.RowIndex[k]] is var r and >= 0)
+                {
+                    index.Add(r);
+                    value.Add(p.Values[k]);
+                }
+            }
+
+            start[j + 1] = index.Count;
+        }
+
+        return p with
+        {
+            RowNames = rows.Select(r => p.RowNames[r]).ToArray(),
+            RowLower = rows.Select(r => p.RowLower[r]).ToArray(),
+            RowUpper = rows.Select(r => p.RowUpper[r]).ToArray(),
+            RowOrigin = rows.Select(r => p.RowOrigin[r]).ToArray(),
+            ColStart = start,
+            RowIndex = [.. index],
+            Values = [.. value],
+        };
     }
 
     // A barrier's curvature grows without bound near its limit; HiGHS treats costs above 1e20 as infinite

@@ -59,6 +59,12 @@ public static class FitRunner
             var model = ModelCompiler.Compile(spec);
             table = TableLoader.Load(spec, new DataRequest(model.ColumnsToRead, model.Filter?.Root));
             var design = DesignBuilder.Build(spec, model, table);
+            var nameErrors = Acceptance.CheckNames(spec.Report.Accept, design.Coefficients.Select(c => c.Name)).ToList();
+            if (nameErrors.Count > 0)
+            {
+                throw new FitSpecException(nameErrors);
+            }
+
             var lowered = FitLowering.Lower(spec, design);
             var options = new SolveOptions(spec.Solve.Method, spec.Solve.TimeLimit, (Formulation)(int)spec.Solve.Form);
             var solution = Solver.Solve(lowered, options, cancellation);

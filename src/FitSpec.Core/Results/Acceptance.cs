@@ -40,6 +40,25 @@ public static class Acceptance
         return results;
     }
 
+    /// <summary>The metric names rules may use, besides the coefficient names.</summary>
+    public static readonly IReadOnlyList<string> MetricNames = ["rmse", "mae", "max_abs_residual", "r2", "objective", "observations", "residual_sd"];
+
+    /// <summary>Rules naming something that is neither a metric nor a coefficient, as located errors.</summary>
+    public static IEnumerable<Diagnostics.Diagnostic> CheckNames(IReadOnlyList<SpecText> rules, IEnumerable<string> coefficients)
+    {
+        ArgumentNullException.ThrowIfNull(rules);
+        var known = MetricNames.Concat(coefficients).ToList();
+        foreach (var rule in rules)
+        {
+            var parsed = ExpressionParser.Parse(rule.Value, ExpressionContext.Filter);
+            foreach (var name in parsed.Columns.Where(c => !known.Contains(c)))
+            {
+                yield return new Diagnostics.Diagnostic(rule.Pos.File, rule.Pos.Line, rule.Pos.Column, "report.accept",
+                    $"in '{rule.Value}': unknown name '{name}'{Diagnostics.NameSuggester.Hint(name, known)}; rules use the metrics ({string.Join(", ", MetricNames)}) and coefficient names");
+            }
+        }
+    }
+
     /// <summary>Parse errors in rules, reported with the spec position before any data is read.</summary>
     public static IEnumerable<Diagnostics.Diagnostic> Validate(IReadOnlyList<SpecText> rules)
     {

@@ -5,13 +5,11 @@ namespace FitSpec.Tests.Data;
 
 public sealed class CsvColumnReaderTests : IDisposable
 {
-    private readonly string _folder = Path.Combine(Path.GetTempPath(), "fitspec-csv-" + Guid.NewGuid().ToString("N"));
-
-    public CsvColumnReaderTests() => Directory.CreateDirectory(_folder);
+    private readonly Support.TempFolder _temp = new("fitspec-csv");
 
     private RawColumns Read(string text, bool drop = false, char separator = ',', string[]? columns = null)
     {
-        var path = Path.Combine(_folder, "d.csv");
+        var path = Path.Combine(_temp.Path, "d.csv");
         File.WriteAllText(path, text);
         return CsvColumnReader.Read(path, "d.csv", separator, header => (IReadOnlyList<string>?)columns ?? header, drop, 1000);
     }
@@ -71,14 +69,5 @@ public sealed class CsvColumnReaderTests : IDisposable
         Assert.Contains("did you mean 'load_kg'", Assert.Single(e.Diagnostics).Message, StringComparison.Ordinal);
     }
 
-    public void Dispose()
-    {
-        try
-        {
-            Directory.Delete(_folder, recursive: true);
-        }
-        catch (IOException)
-        {
-        }
-    }
+    public void Dispose() => _temp.Dispose();
 }

@@ -52,54 +52,8 @@ public static class TestMath
     public static double Coefficient(FitResult result, string name) =>
         result.Coefficients.Single(c => c.Name == name).Value;
 
-    /// <summary>Solves A x = b by Gaussian elimination with partial pivoting (A square, small, non-singular).</summary>
-    public static double[] Solve(double[,] a, double[] b)
-    {
-        var n = b.Length;
-        var m = (double[,])a.Clone();
-        var x = (double[])b.Clone();
-        for (var k = 0; k < n; k++)
-        {
-            var pivot = k;
-            for (var i = k + 1; i < n; i++)
-            {
-                if (Math.Abs(m[i, k]) > Math.Abs(m[pivot, k]))
-                {
-                    pivot = i;
-                }
-            }
-
-            for (var j = 0; j < n; j++)
-            {
-                (m[k, j], m[pivot, j]) = (m[pivot, j], m[k, j]);
-            }
-
-            (x[k], x[pivot]) = (x[pivot], x[k]);
-            for (var i = k + 1; i < n; i++)
-            {
-                var f = m[i, k] / m[k, k];
-                for (var j = k; j < n; j++)
-                {
-                    m[i, j] -= f * m[k, j];
-                }
-
-                x[i] -= f * x[k];
-            }
-        }
-
-        for (var k = n - 1; k >= 0; k--)
-        {
-            var s = x[k];
-            for (var j = k + 1; j < n; j++)
-            {
-                s -= m[k, j] * x[j];
-            }
-
-            x[k] = s / m[k, k];
-        }
-
-        return x;
-    }
+    /// <summary>Solves A x = b (small dense systems), written in the tests independently of the product.</summary>
+    public static double[] Solve(double[,] a, double[] b) => Support.DenseLinear.Solve(a, b);
 
     /// <summary>Least squares by the normal equations X'X b = X'y (X given by columns); fine for small, well-conditioned tests.</summary>
     public static double[] LeastSquares(IReadOnlyList<double[]> columns, double[] y, double[,]? extraNormal = null)

@@ -4,17 +4,13 @@ namespace FitSpec.Tests.Pipeline;
 
 public sealed class AcceptanceTests : IDisposable
 {
-    private readonly string _folder = Path.Combine(Path.GetTempPath(), "fitspec-accept-" + Guid.NewGuid().ToString("N"));
+    private readonly Support.TempFolder _temp = new("fitspec-accept");
 
-    public AcceptanceTests()
-    {
-        Directory.CreateDirectory(_folder);
-        File.WriteAllText(Path.Combine(_folder, "d.csv"), "x,y\n0,1\n1,3\n2,5\n3,7.5\n");
-    }
+    public AcceptanceTests() => _temp.Write("d.csv", "x,y\n0,1\n1,3\n2,5\n3,7.5\n");
 
     private Results.FitResult Run(string rules)
     {
-        var spec = Path.Combine(_folder, "a.fit.yaml");
+        var spec = Path.Combine(_temp.Path, "a.fit.yaml");
         File.WriteAllText(spec, $"fitspec: 1\ndata: {{path: d.csv}}\nmodel:\n  response: y\n  terms: {{b0: 1, b1: x}}\nreport:\n  accept:\n{rules}");
         return FitRunner.Run(spec);
     }
@@ -41,14 +37,5 @@ public sealed class AcceptanceTests : IDisposable
         Assert.Contains("did you mean 'rmse'", e.Message, StringComparison.Ordinal);
     }
 
-    public void Dispose()
-    {
-        try
-        {
-            Directory.Delete(_folder, recursive: true);
-        }
-        catch (IOException)
-        {
-        }
-    }
+    public void Dispose() => _temp.Dispose();
 }

@@ -13,9 +13,7 @@ namespace FitSpec.Tests.Properties;
 /// </summary>
 public sealed class FitLawTests : IDisposable
 {
-    private readonly string _folder = Path.Combine(Path.GetTempPath(), "fitspec-law-" + Guid.NewGuid().ToString("N"));
-
-    public FitLawTests() => Directory.CreateDirectory(_folder);
+    private readonly Support.TempFolder _temp = new("fitspec-law");
 
     [Theory]
     [InlineData("l1")]
@@ -88,8 +86,8 @@ public sealed class FitLawTests : IDisposable
             csv.Append(CultureInfo.InvariantCulture, $"{x[i]:R},{y[i]:R}\n");
         }
 
-        File.WriteAllText(Path.Combine(_folder, name + ".csv"), csv.ToString());
-        var spec = Path.Combine(_folder, name + ".fit.yaml");
+        File.WriteAllText(Path.Combine(_temp.Path, name + ".csv"), csv.ToString());
+        var spec = Path.Combine(_temp.Path, name + ".fit.yaml");
         File.WriteAllText(spec, $"fitspec: 1\nname: {name}\ndata: {{path: {name}.csv}}\nmodel:\n  response: y\n  terms: {{b0: 1, b1: x, b2: x^2}}\nloss: {loss}\n{extra}");
         var result = FitRunner.Run(spec);
         Assert.True(result.Status == "optimal", $"{name}: {result.Status} {result.StatusDetail} {string.Join("; ", result.Errors.Select(e => e.Message))}");
@@ -107,14 +105,5 @@ public sealed class FitLawTests : IDisposable
         }
     }
 
-    public void Dispose()
-    {
-        try
-        {
-            Directory.Delete(_folder, recursive: true);
-        }
-        catch (IOException)
-        {
-        }
-    }
+    public void Dispose() => _temp.Dispose();
 }

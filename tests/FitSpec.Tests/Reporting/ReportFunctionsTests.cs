@@ -3,6 +3,10 @@ using FitSpec.Results;
 
 namespace FitSpec.Tests.Reporting;
 
+/// <summary>
+/// Number formatting and escaping helpers. The long literals are formatting inputs made up for these tests, not
+/// check values from any source.
+/// </summary>
 public sealed class ReportFunctionsTests
 {
     [Fact]

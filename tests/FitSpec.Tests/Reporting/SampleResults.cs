@@ -4,7 +4,10 @@ using FitSpec.Verification;
 
 namespace FitSpec.Tests.Reporting;
 
-/// <summary>Hand-built results covering the report's sections, so rendering is tested without solving.</summary>
+/// <summary>
+/// Hand-built results covering the report's sections, so rendering is tested without solving. The numbers are
+/// made up to exercise formatting; they are not check values and have no source to name.
+/// </summary>
 internal static class SampleResults
 {
     public const string Attack = "<script>alert(1)</script>";

@@ -79,55 +79,8 @@ internal sealed class SequentialFits : IDisposable
         return rows;
     }
 
-    /// <summary>Solves A z = b by Gaussian elimination with partial pivoting (small dense systems).</summary>
-    public static double[] SolveLinear(double[,] a, double[] b)
-    {
-        var n = b.Length;
-        var m = (double[,])a.Clone();
-        var r = (double[])b.Clone();
-        for (var k = 0; k < n; k++)
-        {
-            var pivot = k;
-            for (var i = k + 1; i < n; i++)
-            {
-                if (Math.Abs(m[i, k]) > Math.Abs(m[pivot, k]))
-                {
-                    pivot = i;
-                }
-            }
-
-            for (var j = 0; j < n; j++)
-            {
-                (m[k, j], m[pivot, j]) = (m[pivot, j], m[k, j]);
-            }
-
-            (r[k], r[pivot]) = (r[pivot], r[k]);
-            for (var i = k + 1; i < n; i++)
-            {
-                var f = m[i, k] / m[k, k];
-                for (var j = k; j < n; j++)
-                {
-                    m[i, j] -= f * m[k, j];
-                }
-
-                r[i] -= f * r[k];
-            }
-        }
-
-        var z = new double[n];
-        for (var i = n - 1; i >= 0; i--)
-        {
-            var s = r[i];
-            for (var j = i + 1; j < n; j++)
-            {
-                s -= m[i, j] * z[j];
-            }
-
-            z[i] = s / m[i, i];
-        }
-
-        return z;
-    }
+    /// <summary>Solves A z = b (small dense systems), written in the tests independently of the product.</summary>
+    public static double[] SolveLinear(double[,] a, double[] b) => Support.DenseLinear.Solve(a, b);
 
     /// <summary>Weighted least squares by the normal equations (fine for the small, well-conditioned tests here).</summary>
     public static double[] LeastSquares(IReadOnlyList<double[]> x, IReadOnlyList<double> y, IReadOnlyList<double>? w = null)

@@ -10,9 +10,7 @@ namespace FitSpec.Tests.Solving;
 /// </summary>
 public sealed class QpRobustnessTests : IDisposable
 {
-    private readonly string _folder = Path.Combine(Path.GetTempPath(), "fitspec-qp-" + Guid.NewGuid().ToString("N"));
-
-    public QpRobustnessTests() => Directory.CreateDirectory(_folder);
+    private readonly Support.TempFolder _temp = new("fitspec-qp");
 
     [Theory]
     [InlineData("{kind: quantile, tau: 0.5}", "{kind: l2, weight: 1.0e-4, on: [t*]}")]
@@ -29,8 +27,8 @@ public sealed class QpRobustnessTests : IDisposable
             csv.Append(CultureInfo.InvariantCulture, $"{load},{temp:R},{reading:R}\n");
         }
 
-        File.WriteAllText(Path.Combine(_folder, "d.csv"), csv.ToString());
-        var spec = Path.Combine(_folder, "band.fit.yaml");
+        File.WriteAllText(Path.Combine(_temp.Path, "d.csv"), csv.ToString());
+        var spec = Path.Combine(_temp.Path, "band.fit.yaml");
         File.WriteAllText(spec, $"""
             fitspec: 1
             data: {"{"}path: d.csv{"}"}
@@ -54,14 +52,5 @@ public sealed class QpRobustnessTests : IDisposable
         Assert.True(result.Verification.DualityGap <= 1e-9, $"gap {result.Verification.DualityGap}");
     }
 
-    public void Dispose()
-    {
-        try
-        {
-            Directory.Delete(_folder, recursive: true);
-        }
-        catch (IOException)
-        {
-        }
-    }
+    public void Dispose() => _temp.Dispose();
 }

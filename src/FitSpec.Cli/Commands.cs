@@ -130,6 +130,12 @@ internal static class Commands
                 return 2;
             }
 
+            if (lowered!.Class is ProblemClass.QPSequence or ProblemClass.Local)
+            {
+                Console.Error.WriteLine($"{path}: error: loss '{lowered.Spec.Loss.KindName}' is solved by {(lowered.Class == ProblemClass.QPSequence ? "a sequence of QPs" : "a local method over several programs")}, so no single program describes the fit; MPS export covers LP, QP and MILP fits");
+                return 2;
+            }
+
             var target = parse.GetValue(mps)!;
             var dir = Path.GetDirectoryName(Path.GetFullPath(target))!;
             Directory.CreateDirectory(dir);

@@ -29,7 +29,7 @@ internal sealed class HighsFitSolver : IFitSolver
 
     private static Solution Map(HighsRunResult run, HighsRunner runner, SolveOptions options, string formulation, Stopwatch clock)
     {
-        var method = options.Method switch
+        var method = runner.UsedDual && runner.UsedInteriorPoint ? "interior point with crossover (auto: large dual LP)" : options.Method switch
         {
             Spec.SolveMethod.Ipm => "interior point",
             Spec.SolveMethod.Simplex => "simplex",

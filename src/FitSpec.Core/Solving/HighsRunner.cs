@@ -34,6 +34,9 @@ internal sealed class HighsRunner
 
     public int DualRows { get; private set; }
 
+    /// <summary>Whether the last dual LP went to interior point by the auto rule.</summary>
+    public bool UsedInteriorPoint { get; private set; }
+
     /// <summary>True once the fit's time limit is spent.</summary>
     public bool OutOfTime => _options.TimeLimitSeconds is { } limit && Seconds >= limit;
 
@@ -56,7 +59,11 @@ internal sealed class HighsRunner
         if (useDual)
         {
             var dual = LpDual.Build(program);
-            var run = Run(dual.Model, isLp: true, program);
+            // Measured (DEVELOPERS.md): on the dual of an l1-type fit, interior point with crossover is 3× faster
+            // than simplex at 10⁴ observations and 14× at 10⁵, and level at 10³.
+            var interiorPoint = _options.Method == Spec.SolveMethod.Auto && dual.Model.NumCol > InteriorPointColumns;
+            UsedInteriorPoint = interiorPoint;
+            var run = Run(dual.Model, isLp: true, program, interiorPoint);
             if (run.ModelStatus == HighsModelStatus.Optimal)
             {
                 var (x, rowDual, colDual) = dual.Recover(run);
@@ -214,9 +221,12 @@ internal sealed class HighsRunner
     // digits and so the KKT residual the sequence can reach. Without it HiGHS can also stop at once and call
     // its starting point optimal (seen with free split variables that have no curvature); so an answer is
     // kept only if its own stationarity holds, and otherwise the default is tried and the better one kept.
-    private HighsResult Run(HighsModel model, bool isLp, FitProgram program)
+    /// <summary>Dual LPs with more columns than this go to interior point (with crossover) under solve.method auto.</summary>
+    public const int InteriorPointColumns = 5000;
+
+    private HighsResult Run(HighsModel model, bool isLp, FitProgram program, bool interiorPoint = false)
     {
-        var result = RunOnce(model, isLp, exactQp: !isLp);
+        var result = RunOnce(model, isLp, exactQp: !isLp, interiorPoint);
         if (isLp || result.ModelStatus is HighsModelStatus.Infeasible or HighsModelStatus.Unbounded or HighsModelStatus.TimeLimit)
         {
             return result;
@@ -355,7 +365,7 @@ internal sealed class HighsRunner
         return worst / scale;
     }
 
-    private HighsResult RunOnce(HighsModel model, bool isLp, bool exactQp)
+    private HighsResult RunOnce(HighsModel model, bool isLp, bool exactQp, bool interiorPoint = false)
     {
         using var highs = new HighsSolver();
         highs.SetOption("output_flag", false);
@@ -366,7 +376,11 @@ internal sealed class HighsRunner
         }
 
         // The user's method choice applies to the LPs of the sequence; QPs go to HiGHS's QP solver.
-        if (isLp)
+        if (isLp && interiorPoint)
+        {
+            highs.SetOption("solver", "ipm");
+        }
+        else if (isLp)
         {
             switch (_options.Method)
             {

@@ -40,6 +40,10 @@ public static class TableLoader
         {
             raw = CsvColumnReader.Read(full, errorPath, separator, request.SelectColumns, data.Missing == MissingPolicy.Drop, MaxRows);
         }
+        catch (ArgumentException) when (DuplicateHeaderName(full, separator) is { } duplicate)
+        {
+            throw new FitSpecException(new Diagnostic(errorPath, 1, null, duplicate, "this column name appears more than once in the header; give each column its own name"));
+        }
         catch (Exception e) when (e is IOException or UnauthorizedAccessException or InvalidDataException or FormatException or ArgumentException)
         {
             throw new FitSpecException(new Diagnostic(errorPath, null, null, null, $"cannot read data file: {e.Message.ReplaceLineEndings(" ")}"));
@@ -101,6 +105,24 @@ public static class TableLoader
         }
 
         return result;
+    }
+
+    // The CSV package refuses a header that repeats a name, without saying which line; find the name.
+    private static string? DuplicateHeaderName(string path, char separator)
+    {
+        using var reader = new StreamReader(path);
+        var header = reader.ReadLine() ?? "";
+        var seen = new HashSet<string>(StringComparer.Ordinal);
+        foreach (var raw in header.Split(separator))
+        {
+            var name = raw.Trim().Trim('"');
+            if (!seen.Add(name))
+            {
+                return name;
+            }
+        }
+
+        return null;
     }
 
     public static string HashFile(string path)

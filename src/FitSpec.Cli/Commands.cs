@@ -80,6 +80,14 @@ internal static class Commands
                         writeFailed = true;
                     }
                 }
+                catch (Reporting.ReportTemplateException e)
+                {
+                    lock (results)
+                    {
+                        Console.Error.WriteLine($"{files[i]}: error: report template: {e.Message.ReplaceLineEndings(" ")}");
+                        writeFailed = true;
+                    }
+                }
             });
 
             var exit = missing.Count > 0 ? 2 : 0;

@@ -27,7 +27,20 @@ public static class FitRunner
     public static FitOutcome RunForOutput(string specPath, CancellationToken cancellation = default)
     {
         ArgumentNullException.ThrowIfNull(specPath);
-        var result = Run(specPath, out var spec, cancellation);
+        FitResult result;
+        FitSpecDocument? spec = null;
+        try
+        {
+            result = Run(specPath, out spec, cancellation);
+        }
+        catch (Exception e) when (e is not OperationCanceledException)
+        {
+            // A bug must not take down a batch or print a stack trace: the fit gets an error result that says so.
+            var read = SpecReader.Read(specPath);
+            var sha = Convert.ToHexStringLower(SHA256.HashData(read.Bytes));
+            result = Failed(read.Name, specPath, read.Document, sha, null, [new Diagnostic(specPath, null, null, null, $"internal error ({e.GetType().Name}: {e.Message}); this is a bug in FitSpec, please report it with the spec and data")]);
+        }
+
         var templates = spec?.Report.Templates is { } t ? Path.Combine(spec.Folder, t.Value) : null;
         return new FitOutcome(result, spec?.Report.Formats ?? AllFormats, templates);
     }

@@ -71,18 +71,11 @@ internal static class NewtonFits
 /// coefficients keep every |e| below the limit; if so, Newton's method runs from the better of that point and
 /// the constrained least-squares fit (when that one is inside too).
 /// </summary>
-internal sealed class LogBarrierSolver : IFitSolver
+internal sealed class LogBarrierSolver : StrategySolver<LogBarrierStrategy>
 {
-    public int Priority => 500;
-
-    public bool CanSolve(LoweredFit fit, SolveOptions options) => fit?.Strategy is LogBarrierStrategy;
-
-    public Solution Solve(LoweredFit fit, SolveOptions options, CancellationToken cancellation)
+    protected override Solution Solve(LoweredFit fit, LogBarrierStrategy strategy, SolveOptions options, HighsRunner runner)
     {
-        ArgumentNullException.ThrowIfNull(fit);
-        ArgumentNullException.ThrowIfNull(options);
-        var limit = ((LogBarrierStrategy)fit.Strategy!).Limit;
-        var runner = new HighsRunner(options, cancellation);
+        var limit = strategy.Limit;
         var program = fit.Program;
         var newton = new NewtonSequence(fit, new LogBarrierPhi(limit), runner);
         const string name = "log-barrier";
@@ -124,18 +117,11 @@ internal sealed class LogBarrierSolver : IFitSolver
 }
 
 /// <summary>The power loss |e|^p: Newton's method from the least-squares fit under the same constraints.</summary>
-internal sealed class LpLossSolver : IFitSolver
+internal sealed class LpLossSolver : StrategySolver<LpStrategy>
 {
-    public int Priority => 500;
-
-    public bool CanSolve(LoweredFit fit, SolveOptions options) => fit?.Strategy is LpStrategy;
-
-    public Solution Solve(LoweredFit fit, SolveOptions options, CancellationToken cancellation)
+    protected override Solution Solve(LoweredFit fit, LpStrategy strategy, SolveOptions options, HighsRunner runner)
     {
-        ArgumentNullException.ThrowIfNull(fit);
-        ArgumentNullException.ThrowIfNull(options);
-        var p = ((LpStrategy)fit.Strategy!).P;
-        var runner = new HighsRunner(options, cancellation);
+        var p = strategy.P;
         var program = fit.Program;
         var name = $"lp (p = {p.ToString(CultureInfo.InvariantCulture)})";
         var leastSquares = runner.Solve(Starts.LeastSquares(program, fit.Design));

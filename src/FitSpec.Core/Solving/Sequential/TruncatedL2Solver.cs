@@ -14,20 +14,13 @@ namespace FitSpec.Solving.Sequential;
 /// objective is that piece, which the point minimises. The best end point over the starts is returned,
 /// flagged as a local optimum; no duals are reported.
 /// </summary>
-internal sealed class TruncatedL2Solver : IFitSolver
+internal sealed class TruncatedL2Solver : StrategySolver<TruncatedL2Strategy>
 {
     private const int MaxRounds = 100;
 
-    public int Priority => 500;
-
-    public bool CanSolve(LoweredFit fit, SolveOptions options) => fit?.Strategy is TruncatedL2Strategy;
-
-    public Solution Solve(LoweredFit fit, SolveOptions options, CancellationToken cancellation)
+    protected override Solution Solve(LoweredFit fit, TruncatedL2Strategy strategy, SolveOptions options, HighsRunner runner)
     {
-        ArgumentNullException.ThrowIfNull(fit);
-        ArgumentNullException.ThrowIfNull(options);
-        var cap = ((TruncatedL2Strategy)fit.Strategy!).Cap;
-        var runner = new HighsRunner(options, cancellation);
+        var cap = strategy.Cap;
         var program = fit.Program;
         var design = fit.Design;
         var name = $"truncated-l2 (cap {cap.ToString(CultureInfo.InvariantCulture)})";

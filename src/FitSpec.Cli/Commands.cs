@@ -61,10 +61,18 @@ internal static class Commands
 
             var results = new FitResult?[files.Count];
             var outFolder = parse.GetValue(outDir)!;
+            var duplicates = DuplicateNames(files);
             var writeFailed = false;
             var parallel = new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, parse.GetValue(jobs)) };
             Parallel.For(0, files.Count, parallel, i =>
             {
+                if (duplicates.TryGetValue(i, out var first))
+                {
+                    // Its files would overwrite the other fit's: report, write nothing.
+                    results[i] = DuplicateResult(files[i], files[first]);
+                    return;
+                }
+
                 var outcome = FitRunner.RunForOutput(files[i]);
                 var result = outcome.Result;
                 results[i] = result;
@@ -165,6 +173,32 @@ internal static class Commands
             return 0;
         });
         return command;
+    }
+
+    // Fit names must be unique in one out folder: the later of two specs with the same name is refused.
+    private static Dictionary<int, int> DuplicateNames(IReadOnlyList<string> files)
+    {
+        var firstByName = new Dictionary<string, int>(StringComparer.Ordinal);
+        var duplicates = new Dictionary<int, int>();
+        for (var i = 0; i < files.Count; i++)
+        {
+            var name = SpecReader.Read(files[i]).Name;
+            if (!firstByName.TryAdd(name, i))
+            {
+                duplicates[i] = firstByName[name];
+            }
+        }
+
+        return duplicates;
+    }
+
+    private static FitResult DuplicateResult(string file, string other)
+    {
+        var read = SpecReader.Read(file);
+        var message = $"fit name '{read.Name}' is also the name of {other}; names must be unique in one run (set 'name:')";
+        return new FitResult(
+            read.Name, "error", message, file, null, null, null, null, null, [], null, null, [], [], null, [], [],
+            new Provenance("", null, FitRunner.ToolVersion, "", "", ""), [new ErrorEntry(file, null, null, "name", message)]);
     }
 
     private static int CheckOne(string file)

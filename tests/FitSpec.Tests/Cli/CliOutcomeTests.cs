@@ -7,6 +7,21 @@ namespace FitSpec.Tests.Cli;
 public sealed class CliOutcomeTests
 {
     [Fact]
+    public void Two_specs_with_one_name_refuse_the_second_and_exit_2()
+    {
+        using var cli = new CliHarness();
+        cli.Write("a/d.csv", SampleData);
+        cli.Write("b/d.csv", SampleData);
+        cli.Write("a/same.fit.yaml", Linear("same"));
+        var second = cli.Write("b/same.fit.yaml", Linear("same"));
+        var run = cli.Run("solve", cli.Folder, "--out", "out");
+        Assert.True(run.ExitCode == 2, run.ToString());
+        Assert.Contains("fit name 'same' is also the name of", run.Stderr, StringComparison.Ordinal);
+        Assert.Contains(Path.GetFileName(Path.GetDirectoryName(second)!), run.Stderr, StringComparison.Ordinal);
+        Assert.Equal("optimal", cli.Json("out/same.result.json").GetProperty("status").GetString());
+    }
+
+    [Fact]
     public void Contradictory_constraints_exit_3_with_status_infeasible()
     {
         using var cli = new CliHarness();

@@ -26,7 +26,9 @@ public static class RankCheck
         ArgumentNullException.ThrowIfNull(design);
         ArgumentNullException.ThrowIfNull(penaltyTargets);
         var p = design.P;
-        if (spec.Loss.Kind == LossKind.None || p == 0)
+        // Without a loss the data only constrain (basis pursuit); with a count penalty the chosen support, not
+        // the full design, is what must be determined, and selecting among dependent candidates is its job.
+        if (spec.Loss.Kind == LossKind.None || p == 0 || spec.Penalties.Any(q => q.Kind == PenaltyKind.Count))
         {
             return [];
         }

@@ -16,7 +16,14 @@ public sealed record LoweredConstraint(
     IReadOnlyList<int> Rows,
     IReadOnlyList<(int Var, double Scale)> VarBounds,
     string? Grid,
-    ShapeCheck? Shape);
+    ShapeCheck? Shape)
+{
+    /// <summary>For a relation constraint: the relation as parsed once when lowered.</summary>
+    public Expressions.LinearRelation? Relation { get; init; }
+
+    /// <summary>An equality reports d(objective)/d(constant side); an inequality the fall per unit relaxation.</summary>
+    public bool IsEquality { get; init; }
+}
 
 /// <summary>What the verification needs to re-check a shape constraint on a finer grid.</summary>
 public sealed record ShapeCheck(ShapeKind Kind, string Input, double From, double To, int GridPoints, IReadOnlyDictionary<string, double> At);

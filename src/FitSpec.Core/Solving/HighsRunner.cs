@@ -407,16 +407,19 @@ internal sealed class HighsRunner
         return run;
     }
 
+    /// <summary>HiGHS's model status as a fit status (SPEC's statuses); every backend maps through this.</summary>
+    public static SolveStatus StatusOf(HighsModelStatus status) => status switch
+    {
+        HighsModelStatus.Optimal or HighsModelStatus.ModelEmpty => SolveStatus.Optimal,
+        HighsModelStatus.Infeasible => SolveStatus.Infeasible,
+        HighsModelStatus.Unbounded or HighsModelStatus.UnboundedOrInfeasible => SolveStatus.Unbounded,
+        HighsModelStatus.TimeLimit or HighsModelStatus.IterationLimit or HighsModelStatus.Interrupt or HighsModelStatus.SolutionLimit => SolveStatus.TimeLimit,
+        _ => SolveStatus.Error,
+    };
+
     private static HighsRunResult Map(HighsResult run, double[] x, double[] rowDual, double[] colDual)
     {
-        var status = run.ModelStatus switch
-        {
-            HighsModelStatus.Optimal or HighsModelStatus.ModelEmpty => SolveStatus.Optimal,
-            HighsModelStatus.Infeasible => SolveStatus.Infeasible,
-            HighsModelStatus.Unbounded or HighsModelStatus.UnboundedOrInfeasible => SolveStatus.Unbounded,
-            HighsModelStatus.TimeLimit or HighsModelStatus.IterationLimit or HighsModelStatus.Interrupt => SolveStatus.TimeLimit,
-            _ => SolveStatus.Error,
-        };
+        var status = StatusOf(run.ModelStatus);
         var hasDual = status == SolveStatus.Optimal && run.HasDual;
         return new HighsRunResult(status, x, hasDual ? rowDual : null, hasDual ? colDual : null, run.ModelStatus, run.HasPrimal);
     }

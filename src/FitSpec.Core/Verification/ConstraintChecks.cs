@@ -16,7 +16,7 @@ internal static class ConstraintChecks
         {
             case RelationConstraint r:
                 {
-                    var rel = Linearizer.Linearize(r.Text.Value).Relation!;
+                    var rel = lc.Relation!;
                     double lhs = 0, size = 0;
                     foreach (var (name, a) in rel.Terms)
                     {

@@ -280,12 +280,7 @@ public static class Verifier
     // equality's is d(objective)/d(constant side). A constraint over several rows reports the sum.
     private static double Dual(LoweredConstraint lc, Solution s)
     {
-        var equality = lc.Spec switch
-        {
-            RelationConstraint r => Linearizer.Linearize(r.Text.Value).Relation?.Operator == RelationOperator.Equal,
-            ValueConstraint v => v.EqualTo is not null,
-            _ => false,
-        };
+        var equality = lc.IsEquality;
         double total = 0;
         foreach (var row in lc.Rows)
         {

@@ -45,7 +45,11 @@ internal sealed class RelationUnit : IConstraintUnit
             _ => (relation.Constant, relation.Constant),
         };
         var row = context.Builder.AddRow($"c{index + 1}", lower, upper, context.Internal(raw), new Origin(OriginKind.Constraint, index));
-        context.Constraints.Add(new LoweredConstraint(index, c, [row], [], null, null));
+        context.Constraints.Add(new LoweredConstraint(index, c, [row], [], null, null)
+        {
+            Relation = relation,
+            IsEquality = relation.Operator == RelationOperator.Equal,
+        });
         context.Notes.Add(new LoweringNote($"constraint {index + 1}", c.Label, "1 linear row"));
     }
 

@@ -18,7 +18,7 @@ internal sealed class ValueUnit : IConstraintUnit
         var phi = context.Design.Basis.At(point, null).Select(j => j.Value).ToArray();
         var (lo, hi) = c.EqualTo is { } v ? (v, v) : (c.Min ?? double.NegativeInfinity, c.Max ?? double.PositiveInfinity);
         var row = context.Builder.AddRow($"c{index + 1}", lo, hi, context.Internal(phi), new Origin(OriginKind.Constraint, index));
-        context.Constraints.Add(new LoweredConstraint(index, c, [row], [], null, null));
+        context.Constraints.Add(new LoweredConstraint(index, c, [row], [], null, null) { IsEquality = c.EqualTo is not null });
         context.Notes.Add(new LoweringNote($"constraint {index + 1}", c.Label, "1 row: the basis evaluated at the point"));
     }
 }

@@ -35,7 +35,7 @@ internal sealed class SupportSolver : IFitSolver
     {
         var clock = Stopwatch.StartNew();
         var run = RunMilp(fit.Program, options);
-        var status = Status(run.ModelStatus);
+        var status = HighsRunner.StatusOf(run.ModelStatus);
         var solver = $"HiGHS {HighsSolver.Version}";
         if (!run.HasPrimal || status is not (SolveStatus.Optimal or SolveStatus.TimeLimit))
         {
@@ -219,13 +219,4 @@ internal sealed class SupportSolver : IFitSolver
         highs.PassModel(HighsModels.From(program));
         return highs.Run();
     }
-
-    private static SolveStatus Status(HighsModelStatus status) => status switch
-    {
-        HighsModelStatus.Optimal => SolveStatus.Optimal,
-        HighsModelStatus.Infeasible => SolveStatus.Infeasible,
-        HighsModelStatus.Unbounded or HighsModelStatus.UnboundedOrInfeasible => SolveStatus.Unbounded,
-        HighsModelStatus.TimeLimit or HighsModelStatus.IterationLimit or HighsModelStatus.Interrupt or HighsModelStatus.SolutionLimit => SolveStatus.TimeLimit,
-        _ => SolveStatus.Error,
-    };
 }

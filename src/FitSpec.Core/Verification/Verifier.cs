@@ -38,9 +38,11 @@ public static class Verifier
         double? gap = null;
         double? dualResidual = null;
         double? stationarity = null;
+        double[]? closedFormFitted = null;
         if (fit.ClosedForm is { } ls)
         {
-            stationarity = Stationarity(design, ls, theta);
+            closedFormFitted = design.Fitted(theta);
+            stationarity = Stationarity(design, ls, theta, closedFormFitted);
             if (stationarity > Tolerance)
             {
                 failures.Add($"normal-equation residual {stationarity:G3} exceeds {Tolerance:G1}");
@@ -78,7 +80,7 @@ public static class Verifier
             }
         }
 
-        var programObjective = solverObjective ?? ClosedFormObjective(fit, theta);
+        var programObjective = solverObjective ?? ClosedFormObjective(fit, theta, closedFormFitted!);
         objectiveDiff = solution.ObjectiveComparable ? Math.Abs(programObjective - objective) / Math.Max(1, Math.Abs(objective)) : null;
         if (objectiveDiff > Tolerance)
         {
@@ -150,9 +152,8 @@ public static class Verifier
     // The gradient of the least-squares objective, column by column, relative to ‖column‖·‖√W y‖: zero at the
     // exact optimum, independent of the data's scale, and still meaningful when the fit is exact (residual
     // at rounding level), where a cosine against the residual would not be.
-    private static double Stationarity(Design.Design design, LeastSquaresForm ls, double[] theta)
+    private static double Stationarity(Design.Design design, LeastSquaresForm ls, double[] theta, double[] fitted)
     {
-        var fitted = design.Fitted(theta);
         var n = design.Rows;
         var r = new double[n];
         for (var i = 0; i < n; i++)
@@ -204,10 +205,9 @@ public static class Verifier
         return worst;
     }
 
-    private static double ClosedFormObjective(LoweredFit fit, double[] theta)
+    private static double ClosedFormObjective(LoweredFit fit, double[] theta, double[] fitted)
     {
         var design = fit.Design;
-        var fitted = design.Fitted(theta);
         double s = 0;
         for (var i = 0; i < design.Rows; i++)
         {

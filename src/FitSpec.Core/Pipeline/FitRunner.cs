@@ -24,7 +24,10 @@ public static class FitRunner
 
     private static readonly ReportFormat[] AllFormats = [ReportFormat.Html, ReportFormat.Md, ReportFormat.Json];
 
-    public static FitOutcome RunForOutput(string specPath, CancellationToken cancellation = default)
+    public static FitOutcome RunForOutput(string specPath, CancellationToken cancellation = default) =>
+        RunForOutput(specPath, RunSettings.Default, cancellation);
+
+    public static FitOutcome RunForOutput(string specPath, RunSettings settings, CancellationToken cancellation = default)
     {
         ArgumentNullException.ThrowIfNull(specPath);
         FitResult result;

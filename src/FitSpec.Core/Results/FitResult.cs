@@ -33,6 +33,30 @@ public sealed record FitResult(
     /// </summary>
     public IReadOnlyList<int> OutlierLines { get; init; } = [];
 
+    /// <summary>Per-row numbers for the plots (null when nothing was solved).</summary>
+    public ResidualSeries? Series { get; init; }
+
+    /// <summary>Lines the residual plot draws at ±value: the loss's width, a residual band, a barrier limit.</summary>
+    public IReadOnlyList<ResidualGuide> Guides { get; init; } = [];
+
+    /// <summary>The loss's φ(r) over the residual range (null for fits without a loss).</summary>
+    public LossCurve? LossCurve { get; init; }
+
+    /// <summary>For robust losses: data-file lines of the observations outside the loss's width.</summary>
+    public IReadOnlyList<int> OutsideWidthLines { get; init; } = [];
+
+    /// <summary>Leverage of the rows (l2 fits only).</summary>
+    public LeverageSummary? Leverage { get; init; }
+
+    /// <summary>Each active constraint's dual as a sentence.</summary>
+    public IReadOnlyList<DualReading> DualReadings { get; init; } = [];
+
+    /// <summary>LP cost and bound ranging (LP fits only).</summary>
+    public RangingInfo? Ranging { get; init; }
+
+    /// <summary>Classical standard errors and bootstrap intervals, where computed.</summary>
+    public UncertaintyInfo? Uncertainty { get; init; }
+
     /// <summary>SPEC exit-code semantics for this fit alone.</summary>
     public int ExitCode => Status switch
     {
@@ -83,6 +107,16 @@ public sealed record Provenance(
     string ToolVersion,
     string Solver,
     string Runtime,
-    string OperatingSystem);
+    string OperatingSystem)
+{
+    /// <summary>The source commit the tool was built from, when known.</summary>
+    public string? Commit { get; init; }
+
+    /// <summary>The command that produced the result (scheduling options left out).</summary>
+    public string CommandLine { get; init; } = "";
+
+    /// <summary>UTC time of the run; only with --stamp, so that files are otherwise byte-identical.</summary>
+    public string? Stamp { get; init; }
+}
 
 public sealed record ErrorEntry(string File, int? Line, int? Column, string? Field, string Message);

@@ -165,4 +165,11 @@ public enum ReportFormat
     Json,
 }
 
-public sealed record ReportSpec(IReadOnlyList<ReportFormat> Formats, IReadOnlyList<SpecText> Accept, SpecText? Templates);
+public sealed record ReportSpec(IReadOnlyList<ReportFormat> Formats, IReadOnlyList<SpecText> Accept, SpecText? Templates)
+{
+    /// <summary>report.uncertainty: bootstrap intervals by case resampling (null when not asked for).</summary>
+    public UncertaintySpec? Uncertainty { get; init; }
+}
+
+/// <summary>report.uncertainty: {bootstrap: N, seed: S, level: L}; Level is the interval's coverage (default 0.95).</summary>
+public sealed record UncertaintySpec(int Bootstrap, int Seed, double Level, SourcePos Pos);

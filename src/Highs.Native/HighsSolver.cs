@@ -155,6 +155,39 @@ public sealed class HighsSolver : IDisposable
         }
     }
 
+    /// <summary>
+    /// LP sensitivity after a simplex solve: for each column the cost interval keeping the basis optimal, and for
+    /// each column and row bound the interval over which the basis (so the duals) stays the same, with the
+    /// objective at either end. Null when HiGHS has no basis to range.
+    /// </summary>
+    public unsafe HighsRanging? GetRanging()
+    {
+        var model = _model ?? throw new InvalidOperationException("PassModel first.");
+        int nc = Math.Max(1, model.NumCol), nr = Math.Max(1, model.NumRow);
+        double[] ccuV = new double[nc], ccuO = new double[nc], ccdV = new double[nc], ccdO = new double[nc];
+        double[] cbuV = new double[nc], cbuO = new double[nc], cbdV = new double[nc], cbdO = new double[nc];
+        double[] rbuV = new double[nr], rbuO = new double[nr], rbdV = new double[nr], rbdO = new double[nr];
+        int[] i1 = new int[nc], i2 = new int[nc], i3 = new int[nc], i4 = new int[nc], i5 = new int[nc], i6 = new int[nc], i7 = new int[nc], i8 = new int[nc];
+        int[] r1 = new int[nr], r2 = new int[nr], r3 = new int[nr], r4 = new int[nr];
+        int status;
+        fixed (double* a = ccuV, b = ccuO, c = ccdV, d = ccdO, e = cbuV, f = cbuO, g = cbdV, h = cbdO, k = rbuV, l = rbuO, m = rbdV, n = rbdO)
+        fixed (int* j1 = i1, j2 = i2, j3 = i3, j4 = i4, j5 = i5, j6 = i6, j7 = i7, j8 = i8, q1 = r1, q2 = r2, q3 = r3, q4 = r4)
+        {
+            status = NativeMethods.Highs_getRanging(H, a, b, j1, j2, c, d, j3, j4, e, f, j5, j6, g, h, j7, j8, k, l, q1, q2, m, n, q3, q4);
+        }
+
+        if (status == -1)
+        {
+            return null;
+        }
+
+        var cols = model.NumCol;
+        var rows = model.NumRow;
+        return new HighsRanging(
+            ccdV[..cols], ccuV[..cols], cbdV[..cols], cbdO[..cols], cbuV[..cols], cbuO[..cols],
+            rbdV[..rows], rbdO[..rows], rbuV[..rows], rbuO[..rows]);
+    }
+
     /// <summary>Writes the passed model with HiGHS's own writer; the extension picks the format (.mps, .lp).</summary>
     public void WriteModel(string path) => Check(NativeMethods.Highs_writeModel(H, path), "Highs_writeModel");
 
@@ -194,3 +227,16 @@ public sealed class HighsSolver : IDisposable
         }
     }
 }
+
+/// <summary>HiGHS's ranging output (Dn = the lower end, Up = the upper end; Objective = the objective there).</summary>
+public sealed record HighsRanging(
+    double[] ColCostDn,
+    double[] ColCostUp,
+    double[] ColBoundDn,
+    double[] ColBoundDnObjective,
+    double[] ColBoundUp,
+    double[] ColBoundUpObjective,
+    double[] RowBoundDn,
+    double[] RowBoundDnObjective,
+    double[] RowBoundUp,
+    double[] RowBoundUpObjective);

@@ -107,4 +107,14 @@ internal static partial class NativeMethods
 
     [LibraryImport(Library)]
     internal static unsafe partial int Highs_setSolution(IntPtr highs, double* colValue, double* rowValue, double* colDual, double* rowDual);
+
+    [LibraryImport(Library)]
+    internal static unsafe partial int Highs_getRanging(
+        IntPtr highs,
+        double* colCostUpValue, double* colCostUpObjective, int* colCostUpInVar, int* colCostUpOutVar,
+        double* colCostDnValue, double* colCostDnObjective, int* colCostDnInVar, int* colCostDnOutVar,
+        double* colBoundUpValue, double* colBoundUpObjective, int* colBoundUpInVar, int* colBoundUpOutVar,
+        double* colBoundDnValue, double* colBoundDnObjective, int* colBoundDnInVar, int* colBoundDnOutVar,
+        double* rowBoundUpValue, double* rowBoundUpObjective, int* rowBoundUpInVar, int* rowBoundUpOutVar,
+        double* rowBoundDnValue, double* rowBoundDnObjective, int* rowBoundDnInVar, int* rowBoundDnOutVar);
 }

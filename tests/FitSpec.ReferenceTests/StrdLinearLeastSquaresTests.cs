@@ -28,12 +28,7 @@ public sealed class StrdLinearLeastSquaresTests
         var failures = new List<string>();
         foreach (var name in Datasets)
         {
-            var certified = ReferenceData.Json($"strd-lls/{name}.json");
-            using var ws = new SpecWorkspace();
-            var data = ws.CopyData($"strd-lls/{name}.csv");
-            var spec = ws.WriteSpec(name.ToLowerInvariant(), SpecFor(name, data, certified.GetProperty("parameters").GetArrayLength()));
-            var result = ws.Solve(spec);
-            Assert.True(result.GetProperty("status").GetString() == "optimal", $"{name}: {result}");
+            var (certified, result) = Solve(name);
             var coefficients = result.GetProperty("coefficients");
             var lres = new List<double>();
             foreach (var p in certified.GetProperty("parameters").EnumerateArray())
@@ -56,6 +51,62 @@ public sealed class StrdLinearLeastSquaresTests
         _output.WriteLine(table.ToString());
         Console.WriteLine(table.ToString());
         Assert.True(failures.Count == 0, string.Join(Environment.NewLine, failures));
+    }
+
+    /// <summary>
+    /// The classical standard errors of the unconstrained l2 fit against the certified standard deviations of the
+    /// estimates (same NIST StRD files, "std_dev"), and residual_sd against the certified residual standard deviation.
+    /// </summary>
+    [ReferenceFact]
+    public void Every_certified_standard_deviation_has_LRE_of_at_least_8()
+    {
+        var table = new StringBuilder();
+        table.AppendLine("| dataset | min LRE of std devs | residual sd LRE |");
+        table.AppendLine("| --- | ---: | ---: |");
+        var failures = new List<string>();
+        foreach (var name in Datasets)
+        {
+            var (certified, result) = Solve(name);
+            var errors = result.GetProperty("uncertainty").GetProperty("standard_errors").EnumerateArray()
+                .ToDictionary(e => e.GetProperty("name").GetString()!, e => e.GetProperty("std_error").GetDouble());
+            var lres = new List<double>();
+            foreach (var p in certified.GetProperty("parameters").EnumerateArray())
+            {
+                var pname = p.GetProperty("name").GetString()!;
+                var cert = ReferenceData.Number(p.GetProperty("std_dev"));
+                var lre = Lre.Of(errors[pname], cert);
+                lres.Add(lre);
+                if (lre < 8)
+                {
+                    failures.Add($"{name} {pname}: std error {errors[pname]:R}, certified {cert:R}, LRE {lre:F2}");
+                }
+            }
+
+            var sdCert = ReferenceData.Number(certified.GetProperty("residual_std_dev"));
+            var sdLre = Lre.Of(result.GetProperty("metrics").GetProperty("residual_sd").GetDouble(), sdCert);
+            if (sdLre < 8)
+            {
+                failures.Add($"{name} residual sd: LRE {sdLre:F2}");
+            }
+
+            table.AppendLine(CultureInfo.InvariantCulture, $"| {name} | {lres.Min():F1} | {sdLre:F1} |");
+        }
+
+        _output.WriteLine("NIST StRD linear least squares, log relative error of each certified standard deviation:");
+        _output.WriteLine(table.ToString());
+        Console.WriteLine(table.ToString());
+        Assert.True(failures.Count == 0, string.Join(Environment.NewLine, failures));
+    }
+
+    private static (System.Text.Json.JsonElement Certified, System.Text.Json.JsonElement Result) Solve(string name)
+    {
+        var certified = ReferenceData.Json($"strd-lls/{name}.json");
+        using var ws = new SpecWorkspace();
+        var data = ws.CopyData($"strd-lls/{name}.csv");
+        var spec = ws.WriteSpec(name.ToLowerInvariant(), SpecFor(name, data, certified.GetProperty("parameters").GetArrayLength()));
+        var result = ws.Solve(spec);
+        Assert.True(result.GetProperty("status").GetString() == "optimal", $"{name}: {result}");
+        return (certified, result);
     }
 
     private static string SpecFor(string name, string dataFile, int parameters)

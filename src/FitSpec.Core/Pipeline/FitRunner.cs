@@ -34,23 +34,23 @@ public static class FitRunner
         FitSpecDocument? spec = null;
         try
         {
-            result = Run(specPath, out spec, cancellation);
+            result = Run(specPath, settings, out spec, cancellation);
         }
         catch (Exception e) when (e is not OperationCanceledException)
         {
             // A bug must not take down a batch or print a stack trace: the fit gets an error result that says so.
             var read = SpecReader.Read(specPath);
             var sha = Convert.ToHexStringLower(SHA256.HashData(read.Bytes));
-            result = Failed(read.Name, specPath, read.Document, sha, null, [new Diagnostic(specPath, null, null, null, $"internal error ({e.GetType().Name}: {e.Message}); this is a bug in FitSpec, please report it with the spec and data")]);
+            result = Failed(read.Name, specPath, read.Document, MakeProvenance(sha, null, settings), null, [new Diagnostic(specPath, null, null, null, $"internal error ({e.GetType().Name}: {e.Message}); this is a bug in FitSpec, please report it with the spec and data")]);
         }
 
         var templates = spec?.Report.Templates is { } t ? Path.Combine(spec.Folder, t.Value) : null;
         return new FitOutcome(result, spec?.Report.Formats ?? AllFormats, templates);
     }
 
-    public static FitResult Run(string specPath, CancellationToken cancellation = default) => Run(specPath, out _, cancellation);
+    public static FitResult Run(string specPath, CancellationToken cancellation = default) => Run(specPath, RunSettings.Default, out _, cancellation);
 
-    private static FitResult Run(string specPath, out FitSpecDocument? document, CancellationToken cancellation)
+    private static FitResult Run(string specPath, RunSettings settings, out FitSpecDocument? document, CancellationToken cancellation)
     {
         ArgumentNullException.ThrowIfNull(specPath);
         document = null;
@@ -58,7 +58,7 @@ public static class FitRunner
         var specSha = Convert.ToHexStringLower(SHA256.HashData(read.Bytes));
         if (read.Document is not { } spec)
         {
-            return Failed(read.Name, specPath, null, specSha, null, read.Errors);
+            return Failed(read.Name, specPath, null, MakeProvenance(specSha, null, settings), null, read.Errors);
         }
 
         document = spec;
@@ -84,11 +84,11 @@ public static class FitRunner
             var lowered = FitLowering.Lower(spec, design);
             var options = new SolveOptions(spec.Solve.Method, spec.Solve.TimeLimit, (Formulation)(int)spec.Solve.Form);
             var solution = Solver.Solve(lowered, options, cancellation);
-            return Assemble(spec, specSha, table, lowered, solution);
+            return Assemble(spec, MakeProvenance(specSha, table.Sha256, settings), table, lowered, solution, options, cancellation);
         }
         catch (FitSpecException e)
         {
-            return Failed(spec.Name, specPath, spec, specSha, table, e.Diagnostics);
+            return Failed(spec.Name, specPath, spec, MakeProvenance(specSha, table?.Sha256, settings), table, e.Diagnostics);
         }
     }
 
@@ -102,7 +102,7 @@ public static class FitRunner
         return FitLowering.Lower(spec, design, forceProgram);
     }
 
-    private static FitResult Assemble(FitSpecDocument spec, string specSha, Table table, LoweredFit lowered, Solution solution)
+    private static FitResult Assemble(FitSpecDocument spec, Provenance provenance, Table table, LoweredFit lowered, Solution solution, SolveOptions options, CancellationToken cancellation)
     {
         var design = lowered.Design;
         var program = lowered.Program;
@@ -114,7 +114,6 @@ public static class FitRunner
             isClosed ? design.Rows * design.P : program.NonZeros,
             solution.Solver, solution.Method, solution.Formulation, solution.Seconds, solution.Iterations)
         { MipGap = solution.MipGap };
-        var provenance = MakeProvenance(specSha, table.Sha256);
         var data = DataOf(table);
         var statement = Statement.Describe(spec, design, lowered.PenaltyTargets);
 
@@ -170,13 +169,14 @@ public static class FitRunner
 
         // SPEC: non-convex fits report no duals.
         var constraints = solution.GlobalOptimum ? check.Constraints : check.Constraints.Select(c => c with { Dual = null }).ToList();
-        return new FitResult(
+        var result = new FitResult(
             spec.Name, resultStatus, statusDetail, spec.File, spec.Title, spec.Description, statement, problem,
             check.Objective, coefficients, data, check.Metrics, constraints, acceptance, check.Verification,
             Largest(design, check.Residuals), [.. lowered.Notes, .. solution.Notes], provenance, [])
         {
             OutlierLines = solution.Outliers?.Select(i => design.Table.Lines[i]).ToList() ?? [],
         };
+        return resultStatus == "error" ? result : FitInsight.Add(result, lowered, check, options, cancellation);
     }
 
     private static IReadOnlyList<LargestResidual> Largest(Design.Design design, double[] e)
@@ -188,20 +188,25 @@ public static class FitRunner
             .ToList();
     }
 
-    private static FitResult Failed(string name, string specPath, FitSpecDocument? spec, string specSha, Table? table, IReadOnlyList<Diagnostic> errors)
+    private static FitResult Failed(string name, string specPath, FitSpecDocument? spec, Provenance provenance, Table? table, IReadOnlyList<Diagnostic> errors)
     {
         var entries = errors.Select(d => new ErrorEntry(d.File, d.Line, d.Column, d.Field, d.Message)).ToList();
         return new FitResult(
             name, "error", "the spec or its data is invalid; nothing was solved", specPath, spec?.Title, spec?.Description,
             spec is null ? null : Statement.Describe(spec, null, null), null, null, [], table is null ? null : DataOf(table), null, [], [], null, [], [],
-            MakeProvenance(specSha, table?.Sha256), entries);
+            provenance, entries);
     }
 
     private static DataInfo DataOf(Table t) => new(t.DisplayPath, t.Sha256, t.RowsRead, t.RowCount, t.DroppedMissing, t.DroppedFilter);
 
-    private static Provenance MakeProvenance(string specSha, string? dataSha) => new(
-        specSha, dataSha, ToolVersion, $"HiGHS {Solver.HighsVersion}",
-        RuntimeInformation.FrameworkDescription, RuntimeInformation.OSDescription);
+    private static Provenance MakeProvenance(string specSha, string? dataSha, RunSettings settings) => new(
+        specSha, dataSha, ToolVersion.Split('+')[0], $"HiGHS {Solver.HighsVersion}",
+        RuntimeInformation.FrameworkDescription, RuntimeInformation.OSDescription)
+    {
+        Commit = ToolVersion.Contains('+', StringComparison.Ordinal) ? ToolVersion[(ToolVersion.IndexOf('+', StringComparison.Ordinal) + 1)..] : null,
+        CommandLine = settings.CommandLine,
+        Stamp = settings.Stamp ? DateTime.UtcNow.ToString("yyyy-MM-ddTHH:mm:ssZ", CultureInfo.InvariantCulture) : null,
+    };
 
     public static string StatusName(SolveStatus s) => s switch
     {

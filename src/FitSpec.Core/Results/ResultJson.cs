@@ -31,7 +31,12 @@ public static class ResultJson
                 w.WriteString("solver", p.Solver);
                 w.WriteString("method", p.Method);
                 w.WriteString("formulation", p.Formulation);
-                Num(w, "solve_seconds", Math.Round(p.SolveSeconds, 6));
+                // Wall-clock time differs run to run: only with --stamp, so that results are otherwise byte-identical.
+                if (r.Provenance.Stamp is not null)
+                {
+                    Num(w, "solve_seconds", Math.Round(p.SolveSeconds, 6));
+                }
+
                 w.WriteNumber("iterations", p.Iterations);
                 if (p.MipGap is { } gap)
                 {
@@ -132,6 +137,8 @@ public static class ResultJson
             }
 
             w.WriteEndArray();
+            WriteDiagnostics(w, r);
+            WriteUncertainty(w, r.Uncertainty);
             w.WriteStartArray("lowering");
             foreach (var n in r.Lowering)
             {
@@ -151,6 +158,9 @@ public static class ResultJson
             w.WriteString("solver", pv.Solver);
             w.WriteString("runtime", pv.Runtime);
             w.WriteString("os", pv.OperatingSystem);
+            Str(w, "commit", pv.Commit);
+            w.WriteString("command_line", pv.CommandLine);
+            Str(w, "stamp", pv.Stamp);
             w.WriteEndObject();
             w.WriteStartArray("errors");
             foreach (var e in r.Errors)
@@ -169,6 +179,149 @@ public static class ResultJson
         }
 
         return Encoding.UTF8.GetString(buffer.ToArray()) + "\n";
+    }
+
+    private static void WriteDiagnostics(Utf8JsonWriter w, FitResult r)
+    {
+        w.WriteStartObject("diagnostics");
+        w.WriteStartArray("outside_width_lines");
+        foreach (var line in r.OutsideWidthLines)
+        {
+            w.WriteNumberValue(line);
+        }
+
+        w.WriteEndArray();
+        if (r.Leverage is { } lev)
+        {
+            w.WriteStartObject("leverage");
+            Num(w, "mean", lev.Mean);
+            Num(w, "threshold", lev.Threshold);
+            w.WriteStartArray("highest");
+            foreach (var h in lev.Highest)
+            {
+                w.WriteStartObject();
+                w.WriteNumber("row", h.Row);
+                w.WriteNumber("line", h.Line);
+                Num(w, "value", h.Value);
+                w.WriteEndObject();
+            }
+
+            w.WriteEndArray();
+            w.WriteEndObject();
+        }
+        else
+        {
+            w.WriteNull("leverage");
+        }
+
+        w.WriteStartArray("dual_readings");
+        foreach (var d in r.DualReadings)
+        {
+            w.WriteStartObject();
+            w.WriteString("label", d.Label);
+            Num(w, "dual", d.Dual);
+            w.WriteString("sentence", d.Sentence);
+            w.WriteEndObject();
+        }
+
+        w.WriteEndArray();
+        if (r.Ranging is { } rg)
+        {
+            w.WriteStartObject("ranging");
+            Str(w, "note", rg.Note);
+            w.WriteStartArray("constraints");
+            foreach (var b in rg.Constraints)
+            {
+                w.WriteStartObject();
+                w.WriteString("label", b.Label);
+                Num(w, "value", b.Value);
+                Num(w, "low", b.Low);
+                Num(w, "high", b.High);
+                Num(w, "objective_at_low", b.ObjectiveAtLow);
+                Num(w, "objective_at_high", b.ObjectiveAtHigh);
+                w.WriteEndObject();
+            }
+
+            w.WriteEndArray();
+            w.WriteStartArray("coefficient_costs");
+            foreach (var c in rg.Coefficients)
+            {
+                w.WriteStartObject();
+                w.WriteString("name", c.Name);
+                Num(w, "low", c.Low);
+                Num(w, "high", c.High);
+                w.WriteEndObject();
+            }
+
+            w.WriteEndArray();
+            w.WriteEndObject();
+        }
+        else
+        {
+            w.WriteNull("ranging");
+        }
+
+        w.WriteEndObject();
+    }
+
+    private static void WriteUncertainty(Utf8JsonWriter w, UncertaintyInfo? u)
+    {
+        if (u is null)
+        {
+            w.WriteNull("uncertainty");
+            return;
+        }
+
+        w.WriteStartObject("uncertainty");
+        if (u.Classical is { } se)
+        {
+            w.WriteStartArray("standard_errors");
+            foreach (var e in se)
+            {
+                w.WriteStartObject();
+                w.WriteString("name", e.Name);
+                Num(w, "value", e.Value);
+                Num(w, "std_error", e.StdError);
+                Num(w, "t_value", e.TValue);
+                w.WriteEndObject();
+            }
+
+            w.WriteEndArray();
+        }
+        else
+        {
+            w.WriteNull("standard_errors");
+        }
+
+        if (u.Bootstrap is { } b)
+        {
+            w.WriteStartObject("bootstrap");
+            w.WriteNumber("replicates", b.Replicates);
+            w.WriteNumber("seed", b.Seed);
+            w.WriteNumber("succeeded", b.Succeeded);
+            Num(w, "level", b.Level);
+            Str(w, "note", b.Note);
+            w.WriteStartArray("intervals");
+            foreach (var i in b.Intervals)
+            {
+                w.WriteStartObject();
+                w.WriteString("name", i.Name);
+                Num(w, "value", i.Value);
+                Num(w, "low", i.Low);
+                Num(w, "high", i.High);
+                Num(w, "std_dev", i.StdDev);
+                w.WriteEndObject();
+            }
+
+            w.WriteEndArray();
+            w.WriteEndObject();
+        }
+        else
+        {
+            w.WriteNull("bootstrap");
+        }
+
+        w.WriteEndObject();
     }
 
     private static void WriteConstraint(Utf8JsonWriter w, ConstraintCheck c)

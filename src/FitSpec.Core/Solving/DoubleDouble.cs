@@ -90,8 +90,66 @@ internal readonly record struct DoubleDouble(double Hi, double Lo)
 /// <summary>Householder least squares in double-double arithmetic on column-stored data.</summary>
 internal static class DoubleDoubleLeastSquares
 {
-    /// <summary>Solves min ‖A z - b‖ for full-rank A (columns), returning z.</summary>
+    /// <summary>Solves min ‖A z - b‖ for full-rank A (columns), returning z. A's columns are overwritten.</summary>
     public static DoubleDouble[] Solve(DoubleDouble[][] a, DoubleDouble[] b)
+    {
+        var (r, y) = Reduce(a, b);
+        var p = a.Length;
+        var z = new DoubleDouble[p];
+        for (var k = p - 1; k >= 0; k--)
+        {
+            var s = y[k];
+            for (var j = k + 1; j < p; j++)
+            {
+                s -= r[k, j] * z[j];
+            }
+
+            z[k] = s / r[k, k];
+        }
+
+        return z;
+    }
+
+    /// <summary>
+    /// The Euclidean norm of each row of R⁻¹ for A = QR (A's columns overwritten): the standard error of z_j is
+    /// σ times row j's norm, since (A'A)⁻¹ = R⁻¹R⁻ᵀ.
+    /// </summary>
+    public static double[] InverseRowNorms(DoubleDouble[][] a)
+    {
+        var p = a.Length;
+        var (r, _) = Reduce(a, new DoubleDouble[a.Length == 0 ? 0 : a[0].Length]);
+        var inv = new DoubleDouble[p, p];
+        for (var c = 0; c < p; c++)
+        {
+            // Column c of R⁻¹ solves R x = e_c; it is zero below row c.
+            for (var k = c; k >= 0; k--)
+            {
+                var s = k == c ? new DoubleDouble(1, 0) : DoubleDouble.Zero;
+                for (var j = k + 1; j <= c; j++)
+                {
+                    s -= r[k, j] * inv[j, c];
+                }
+
+                inv[k, c] = s / r[k, k];
+            }
+        }
+
+        var norms = new double[p];
+        for (var k = 0; k < p; k++)
+        {
+            var sum = DoubleDouble.Zero;
+            for (var c = k; c < p; c++)
+            {
+                sum += inv[k, c] * inv[k, c];
+            }
+
+            norms[k] = DoubleDouble.Sqrt(sum).Value;
+        }
+
+        return norms;
+    }
+
+    private static (DoubleDouble[,] R, DoubleDouble[] Y) Reduce(DoubleDouble[][] a, DoubleDouble[] b)
     {
         var p = a.Length;
         var m = b.Length;
@@ -135,19 +193,7 @@ internal static class DoubleDoubleLeastSquares
             Reflect(v, y, beta, k, m);
         }
 
-        var z = new DoubleDouble[p];
-        for (var k = p - 1; k >= 0; k--)
-        {
-            var s = y[k];
-            for (var j = k + 1; j < p; j++)
-            {
-                s -= r[k, j] * z[j];
-            }
-
-            z[k] = s / r[k, k];
-        }
-
-        return z;
+        return (r, y);
     }
 
     private static void Reflect(DoubleDouble[] v, DoubleDouble[] c, DoubleDouble beta, int k, int m)

@@ -128,6 +128,24 @@ internal sealed class QrLeastSquares : IFitSolver
 
     private static double[] RawExtendedPrecision(Design.Design design, LeastSquaresForm ls, int m)
     {
+        var (a, scale) = RawScaledColumns(design, ls.RidgeRaw, m);
+        var n = design.Rows;
+        var b = new DoubleDouble[m];
+        for (var i = 0; i < n; i++)
+        {
+            b[i] = DoubleDouble.Sqrt(design.Weight(i)) * design.Y[i];
+        }
+
+        var z = DoubleDoubleLeastSquares.Solve(a, b);
+        return z.Select((v, j) => v.Value * scale[j]).ToArray();
+    }
+
+    /// <summary>
+    /// The weighted raw-basis columns √w·x_j in double-double (computed powers carry their rounding error), with
+    /// the ridge rows below, each scaled by a power of two near 1/‖column‖: A_raw = A · diag(1/scale).
+    /// </summary>
+    internal static (DoubleDouble[][] Columns, double[] Scale) RawScaledColumns(Design.Design design, IReadOnlyList<Design.Entry[]> ridgeRaw, int m)
+    {
         var n = design.Rows;
         var p = design.P;
         var sqrtW = new DoubleDouble[n];
@@ -150,9 +168,9 @@ internal sealed class QrLeastSquares : IFitSolver
                 norm2 += col[i].Hi * col[i].Hi;
             }
 
-            for (var k = 0; k < ls.RidgeRaw.Count; k++)
+            for (var k = 0; k < ridgeRaw.Count; k++)
             {
-                foreach (var e in ls.RidgeRaw[k])
+                foreach (var e in ridgeRaw[k])
                 {
                     if (e.Index == j)
                     {
@@ -173,14 +191,7 @@ internal sealed class QrLeastSquares : IFitSolver
             a[j] = col;
         }
 
-        var b = new DoubleDouble[m];
-        for (var i = 0; i < n; i++)
-        {
-            b[i] = sqrtW[i] * design.Y[i];
-        }
-
-        var z = DoubleDoubleLeastSquares.Solve(a, b);
-        return z.Select((v, j) => v.Value * scale[j]).ToArray();
+        return (a, scale);
     }
 
     internal static double Norm(double[] v, int from)
@@ -280,6 +291,9 @@ internal sealed class Householder
 
         return new Householder(columns, beta, r, m);
     }
+
+    /// <summary>The triangular factor R (upper triangle; Q'A = R).</summary>
+    public double R(int row, int column) => _r[row, column];
 
     /// <summary>First column whose diagonal of R is negligible against the largest, or -1.</summary>
     public int DeficientColumn(double tolerance)

@@ -24,7 +24,7 @@ public static class Bootstrap
         Parallel.For(0, request.Bootstrap, parallel, b =>
         {
             var rows = Draw(design.Rows, request.Seed, b);
-            replicates[b] = Replicate(fit.Spec, Resample(design, rows), options, cancellation)!;
+            replicates[b] = Replicate(fit.Spec, design.Subset(rows), options, cancellation)!;
         });
 
         var good = replicates.Where(r => r is not null).ToList();
@@ -81,26 +81,6 @@ public static class Bootstrap
         {
             return null;
         }
-    }
-
-    /// <summary>The design on the drawn rows, keeping the original basis (centring, scaling, knots).</summary>
-    internal static Design.Design Resample(Design.Design design, int[] rows)
-    {
-        double[] Pick(double[] v) => rows.Select(i => v[i]).ToArray();
-        var table = design.Table with
-        {
-            Columns = design.Table.Columns.ToDictionary(kv => kv.Key, kv => Pick(kv.Value), StringComparer.Ordinal),
-            Lines = rows.Select(i => design.Table.Lines[i]).ToArray(),
-        };
-        return design with
-        {
-            Table = table,
-            Y = Pick(design.Y),
-            W = design.W is null ? null : Pick(design.W),
-            X = design.X.Select(Pick).ToArray(),
-            RawX = design.RawX.Select(Pick).ToArray(),
-            RawXLow = design.RawXLow.Select(v => v is null ? null : Pick(v)).ToArray(),
-        };
     }
 
     /// <summary>Linear interpolation between order statistics (the usual definition of a sample quantile).</summary>

@@ -108,6 +108,46 @@ public sealed record Design(
         return [.. list];
     }
 
+    /// <summary>
+    /// The design on the given rows (repeats allowed), keeping this design's basis — centring, scaling, knots —
+    /// so that coefficients mean the same on the subset.
+    /// </summary>
+    public Design Subset(IReadOnlyList<int> rows)
+    {
+        ArgumentNullException.ThrowIfNull(rows);
+        double[] Pick(double[] v)
+        {
+            var picked = new double[rows.Count];
+            for (var i = 0; i < picked.Length; i++)
+            {
+                picked[i] = v[rows[i]];
+            }
+
+            return picked;
+        }
+
+        var lines = new int[rows.Count];
+        for (var i = 0; i < lines.Length; i++)
+        {
+            lines[i] = Table.Lines[rows[i]];
+        }
+
+        var table = Table with
+        {
+            Columns = Table.Columns.ToDictionary(kv => kv.Key, kv => Pick(kv.Value), StringComparer.Ordinal),
+            Lines = lines,
+        };
+        return this with
+        {
+            Table = table,
+            Y = Pick(Y),
+            W = W is null ? null : Pick(W),
+            X = X.Select(Pick).ToArray(),
+            RawX = RawX.Select(Pick).ToArray(),
+            RawXLow = RawXLow.Select(v => v is null ? null : Pick(v)).ToArray(),
+        };
+    }
+
     /// <summary>Fitted values X θ in the internal basis.</summary>
     public double[] Fitted(ReadOnlySpan<double> theta)
     {

@@ -54,13 +54,16 @@ public sealed class LoweringContext
     public int AddResidualRow(int i, ReadOnlySpan<Entry> extras, Origin origin)
     {
         var p = Design.P;
-        var entries = new Entry[p + extras.Length];
+        var count = p + extras.Length;
+        // One row per observation: no allocation per row where the row is small (the usual case).
+        var entries = count <= 128 ? stackalloc Entry[count] : new Entry[count];
+        var x = Design.X;
         for (var j = 0; j < p; j++)
         {
-            entries[j] = new Entry(j, Design.X[j][i]);
+            entries[j] = new Entry(j, x[j][i]);
         }
 
-        extras.CopyTo(entries.AsSpan(p));
+        extras.CopyTo(entries[p..]);
         return Builder.AddRow($"r{i + 1}", Design.Y[i], Design.Y[i], entries, origin);
     }
 

@@ -36,6 +36,24 @@ public sealed class ProgramBuilder
 
     public int CoefficientCount { get; }
 
+    /// <summary>Sizes the lists for what is about to be added, so that large fits do not grow them step by step.</summary>
+    public void Reserve(int vars, int rows, int entries)
+    {
+        _varNames.EnsureCapacity(_varNames.Count + vars);
+        _cost.EnsureCapacity(_cost.Count + vars);
+        _lower.EnsureCapacity(_lower.Count + vars);
+        _upper.EnsureCapacity(_upper.Count + vars);
+        _integer.EnsureCapacity(_integer.Count + vars);
+        _varOrigin.EnsureCapacity(_varOrigin.Count + vars);
+        _rowNames.EnsureCapacity(_rowNames.Count + rows);
+        _rowLower.EnsureCapacity(_rowLower.Count + rows);
+        _rowUpper.EnsureCapacity(_rowUpper.Count + rows);
+        _rowOrigin.EnsureCapacity(_rowOrigin.Count + rows);
+        _entryRow.EnsureCapacity(_entryRow.Count + entries);
+        _entryCol.EnsureCapacity(_entryCol.Count + entries);
+        _entryValue.EnsureCapacity(_entryValue.Count + entries);
+    }
+
     public int VarCount => _cost.Count;
 
     public int RowCount => _rowLower.Count;

@@ -13,6 +13,7 @@ internal static class CheckLoss
         var design = context.Design;
         var b = context.Builder;
         var origin = new Origin(OriginKind.Loss, 0);
+        b.Reserve(2 * design.Rows, design.Rows, design.Rows * (design.P + 2));
         for (var i = 0; i < design.Rows; i++)
         {
             var w = design.Weight(i);

@@ -1,10 +1,19 @@
+using FitSpec.Pipeline.Batch;
+
 namespace FitSpec.Pipeline;
 
-/// <summary>Turns the command line's SPEC|DIR arguments into an ordered list of spec files.</summary>
+/// <summary>
+/// Turns the command line's SPEC|DIR|PATTERN arguments into an ordered list of spec files: a folder is
+/// searched recursively for *.fit.yaml, a file is taken as it is, and a pattern (`specs/**/*.fit.yaml`,
+/// `specs/lc*`) is expanded here, so that it works quoted too; a folder it matches is searched, a file it
+/// matches counts when it is a spec. The list is in ordinal order of the paths, each file once.
+/// </summary>
 public static class SpecDiscovery
 {
     public const string Suffix = ".fit.yaml";
 
+    /// <param name="arguments">The paths and patterns as given.</param>
+    /// <param name="missing">Arguments that name nothing, or patterns that match no spec.</param>
     public static IReadOnlyList<string> Find(IEnumerable<string> arguments, out IReadOnlyList<string> missing)
     {
         ArgumentNullException.ThrowIfNull(arguments);
@@ -14,11 +23,23 @@ public static class SpecDiscovery
         {
             if (Directory.Exists(arg))
             {
-                files.AddRange(Directory.EnumerateFiles(arg, "*" + Suffix, SearchOption.AllDirectories).Order(StringComparer.Ordinal));
+                files.AddRange(SpecsIn(arg));
             }
             else if (File.Exists(arg))
             {
                 files.Add(arg);
+            }
+            else if (PathGlob.IsPattern(arg))
+            {
+                var matched = PathGlob.Expand(arg)
+                    .SelectMany(p => Directory.Exists(p) ? SpecsIn(p) : p.EndsWith(Suffix, StringComparison.Ordinal) ? [p] : [])
+                    .ToList();
+                if (matched.Count == 0)
+                {
+                    notFound.Add(arg);
+                }
+
+                files.AddRange(matched);
             }
             else
             {
@@ -27,6 +48,12 @@ public static class SpecDiscovery
         }
 
         missing = notFound;
-        return files.Distinct(StringComparer.Ordinal).ToList();
+
+        // One file reached twice (a folder and a pattern, or `./a` and `a`) is run once, under its first spelling.
+        var seen = new HashSet<string>(OperatingSystem.IsWindows() ? StringComparer.OrdinalIgnoreCase : StringComparer.Ordinal);
+        return files.Order(StringComparer.Ordinal).Where(f => seen.Add(Path.GetFullPath(f))).ToList();
     }
+
+    private static IEnumerable<string> SpecsIn(string folder) =>
+        Directory.EnumerateFiles(folder, "*" + Suffix, SearchOption.AllDirectories);
 }

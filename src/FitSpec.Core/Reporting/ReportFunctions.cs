@@ -20,6 +20,17 @@ internal static class ReportFunctions
     /// <summary>A number with 15 significant digits, for coefficients that users copy elsewhere.</summary>
     public static string FullNumber(object? value) => Format(value, "G15");
 
+    /// <summary>A number with 4 significant digits, for diagnostics read by eye (t values, leverage, errors).</summary>
+    public static string BriefNumber(object? value) => Format(value, "G4");
+
+    /// <summary>A fraction as a percentage (0.95 → "95%"), up to 4 significant digits.</summary>
+    public static string Percent(object? value) => value switch
+    {
+        double d when double.IsFinite(d) => FormatDouble(d * 100, "G4") + "%",
+        float f when float.IsFinite(f) => FormatDouble(f * 100.0, "G4") + "%",
+        _ => Format(value, "G4"),
+    };
+
     private static string Format(object? value, string format) => value switch
     {
         null => Missing,
@@ -80,6 +91,65 @@ internal static class ReportFunctions
         return sb.ToString();
     }
 
+    /// <summary>
+    /// Prose for HTML in which `backticked` parts are code (as in the tool's own sentences): everything is
+    /// escaped, and each backticked part becomes a code element.
+    /// </summary>
+    public static string HtmlProse(object? value)
+    {
+        var sb = new StringBuilder();
+        foreach (var (text, code) in ProseParts(Text(value)))
+        {
+            sb.Append(code ? "<code>" + Html(text) + "</code>" : Html(text));
+        }
+
+        return sb.ToString();
+    }
+
+    /// <summary>As <see cref="HtmlProse"/> for Markdown: backticked parts become safe code spans, the rest escaped text.</summary>
+    public static string MarkdownProse(object? value)
+    {
+        var sb = new StringBuilder();
+        foreach (var (text, code) in ProseParts(OneLine(Text(value))))
+        {
+            sb.Append(code ? CodeSpan(text, inTable: false) : EscapeMarkdown(text));
+        }
+
+        return sb.ToString();
+    }
+
+    /// <summary>A relative link target: each path segment percent-encoded, so any file name stays one link.</summary>
+    public static string LinkTarget(object? value) =>
+        string.Join('/', Text(value).Split('/').Select(Uri.EscapeDataString));
+
+    // Splits at backtick pairs; an unpaired backtick is kept as text.
+    private static IEnumerable<(string Text, bool Code)> ProseParts(string text)
+    {
+        var at = 0;
+        while (at < text.Length)
+        {
+            var open = text.IndexOf('`', at);
+            var close = open < 0 ? -1 : text.IndexOf('`', open + 1);
+            if (close < 0)
+            {
+                yield return (text[at..], false);
+                yield break;
+            }
+
+            if (open > at)
+            {
+                yield return (text[at..open], false);
+            }
+
+            if (close > open + 1)
+            {
+                yield return (text[(open + 1)..close], true);
+            }
+
+            at = close + 1;
+        }
+    }
+
     /// <summary>Markdown inline text on one line: punctuation that would start markup or break a table is escaped.</summary>
     public static string Markdown(object? value) => EscapeMarkdown(OneLine(Text(value)));
 
@@ -89,7 +159,8 @@ internal static class ReportFunctions
     /// </summary>
     public static string MarkdownBlock(object? value)
     {
-        var lines = Text(value).Replace("\r\n", "\n", StringComparison.Ordinal).Replace('\r', '\n').Split('\n');
+        // Trailing blank lines (a folded YAML block ends in a newline) would leave an empty paragraph.
+        var lines = Text(value).Replace("\r\n", "\n", StringComparison.Ordinal).Replace('\r', '\n').TrimEnd().Split('\n');
         var sb = new StringBuilder();
         for (var i = 0; i < lines.Length; i++)
         {

@@ -1,5 +1,6 @@
 using System.Collections.Concurrent;
 using System.Globalization;
+using FitSpec.Reporting.Plots;
 using FitSpec.Results;
 using FitSpec.Spec;
 using Scriban;
@@ -35,6 +36,18 @@ public static class ReportRenderer
     public static string Render(FitResult result, ReportFormat format, string? templateFolder = null)
     {
         ArgumentNullException.ThrowIfNull(result);
+        return Render(result, format, templateFolder, ReportPlots.Build(result));
+    }
+
+    /// <summary>
+    /// Renders one result with plots already drawn (so a caller writing several formats draws them once). HTML
+    /// inlines each plot; Markdown links &lt;name&gt;.&lt;key&gt;.svg, which the caller writes beside the .md.
+    /// </summary>
+    /// <exception cref="ReportTemplateException">The template is missing, does not parse, or fails while rendering.</exception>
+    public static string Render(FitResult result, ReportFormat format, string? templateFolder, IReadOnlyList<ReportPlot> plots)
+    {
+        ArgumentNullException.ThrowIfNull(result);
+        ArgumentNullException.ThrowIfNull(plots);
         var fileName = format switch
         {
             ReportFormat.Md => "report.md.sbn",
@@ -44,7 +57,7 @@ public static class ReportRenderer
 
         var path = ResolveTemplate(fileName, templateFolder);
         var template = Load(path);
-        var context = CreateContext(result, format);
+        var context = CreateContext(result, format, plots);
         try
         {
             return template.Render(context);
@@ -135,13 +148,18 @@ public static class ReportRenderer
         return template;
     }
 
-    private static TemplateContext CreateContext(FitResult result, ReportFormat format)
+    private static TemplateContext CreateContext(FitResult result, ReportFormat format, IReadOnlyList<ReportPlot> plots)
     {
         var globals = new ScriptObject();
         globals.SetValue("result", result, true);
-        globals.SetValue("report", Facts(result, format), true);
+        globals.SetValue("report", ReportFacts.Build(result, format, plots), true);
         Import(globals, "fmt", ReportFunctions.Number);
         Import(globals, "full", ReportFunctions.FullNumber);
+        Import(globals, "brief", ReportFunctions.BriefNumber);
+        Import(globals, "percent", ReportFunctions.Percent);
+        Import(globals, "prose_h", ReportFunctions.HtmlProse);
+        Import(globals, "prose_md", ReportFunctions.MarkdownProse);
+        Import(globals, "link", ReportFunctions.LinkTarget);
         Import(globals, "yes_no", ReportFunctions.YesNo);
         Import(globals, "pass_fail", ReportFunctions.PassFail);
         Import(globals, "text", ReportFunctions.Text);
@@ -171,33 +189,6 @@ public static class ReportRenderer
 
     private static void Import(ScriptObject globals, string name, Func<object?, string> function) =>
         globals.Import(name, function);
-
-    /// <summary>Derived facts the templates would otherwise each have to compute.</summary>
-    private static ScriptObject Facts(FitResult result, ReportFormat format)
-    {
-        var facts = new ScriptObject
-        {
-            ["heading"] = string.IsNullOrWhiteSpace(result.Title) ? result.Name : result.Title,
-            ["format"] = format == ReportFormat.Html ? "html" : "md",
-            ["caution"] = Caution,
-            ["has_errors"] = result.Errors.Count > 0,
-            ["has_solution"] = result.Coefficients.Count > 0 || result.Metrics is not null || result.Objective is not null,
-            ["status_class"] = StatusClass(result.Status),
-            ["has_shape"] = result.Constraints.Any(c => c.Grid is not null || c.FineGridWorst is not null || c.FineGridPoints is not null),
-            ["has_closed_form_check"] = result.Verification?.Stationarity is not null,
-        };
-        return facts;
-    }
-
-    // A fixed set of class names so status text never reaches an attribute unchecked.
-    private static string StatusClass(string status) => status switch
-    {
-        "optimal" => "ok",
-        "local-optimum" => "local",
-        "time-limit" => "warn",
-        "infeasible" or "unbounded" or "error" => "bad",
-        _ => "other",
-    };
 
     private sealed record CachedTemplate(string Source, Template Template);
 }

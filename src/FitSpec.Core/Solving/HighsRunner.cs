@@ -238,6 +238,13 @@ internal sealed class HighsRunner
             return result;
         }
 
+        // Small strictly convex QPs: finish exactly from HiGHS's (feasible) point.
+        if (result.ModelStatus == HighsModelStatus.Optimal && DenseActiveSet.Applies(program)
+            && DenseActiveSet.Solve(program, result.ColValue) is { } dense && Stationarity(program, dense) <= 1e-9)
+        {
+            return dense;
+        }
+
         var proximal = Proximal(program, model);
         if (proximal is not null)
         {
@@ -359,6 +366,18 @@ internal sealed class HighsRunner
             }
 
             worst = Math.Max(worst, Math.Abs(g));
+            // A bound multiplier is only a multiplier at its bound: HiGHS has been seen to stop at its start with
+            // the whole gradient of a free variable in z, which satisfies the line above trivially.
+            var zj = run.ColDual[j];
+            var lo = program.Lower[j];
+            var hi = program.Upper[j];
+            var atLower = double.IsFinite(lo) && Math.Abs(x[j] - lo) <= 1e-9 * Math.Max(1, Math.Abs(lo));
+            var atUpper = double.IsFinite(hi) && Math.Abs(x[j] - hi) <= 1e-9 * Math.Max(1, Math.Abs(hi));
+            if ((zj > 0 && !atLower) || (zj < 0 && !atUpper))
+            {
+                worst = Math.Max(worst, Math.Abs(zj));
+            }
+
             scale = Math.Max(scale, Math.Abs(program.Cost[j]) + Math.Abs(qx[j]));
         }
 

@@ -1,5 +1,6 @@
 using System.Globalization;
 using FitSpec.Diagnostics;
+using FitSpec.Spec.Schema;
 using YamlDotNet.RepresentationModel;
 
 namespace FitSpec.Spec;
@@ -7,7 +8,7 @@ namespace FitSpec.Spec;
 /// <summary>Reads constraints: relation strings and {kind: ...} objects, each with a readable label.</summary>
 internal static class ConstraintReader
 {
-    private static readonly string[] KindNames = ["bounds", "increasing", "decreasing", "convex", "concave", "value", "residuals"];
+    private static KindedShape<ConstraintKind> Grammar => SpecGrammar.ConstraintObject;
 
     public static IReadOnlyList<ConstraintSpec> Read(YamlFields f, YamlNode node)
     {
@@ -38,10 +39,10 @@ internal static class ConstraintReader
             return null;
         }
 
-        var kindNode = map.Children.FirstOrDefault(kv => kv.Key is YamlScalarNode { Value: "kind" }).Value;
+        var kindNode = map.Children.FirstOrDefault(kv => kv.Key is YamlScalarNode { Value: KindedShape.Discriminator }).Value;
         if (kindNode is null)
         {
-            f.Error(map, "constraints.kind", "a constraint object needs 'kind:' (bounds, increasing, decreasing, convex, concave, value, residuals); a relation is written as a string, e.g. \"b1 >= 0\"");
+            f.Error(map, "constraints.kind", $"a constraint object needs 'kind:' ({string.Join(", ", Grammar.Kinds)}); a relation is written as a string, e.g. \"b1 >= 0\"");
             return null;
         }
 
@@ -50,12 +51,18 @@ internal static class ConstraintReader
             return null;
         }
 
-        var pos = f.Pos(map);
-        switch (kind.Value)
+        if (Grammar.Find(kind.Value) is not { } variant)
         {
-            case "bounds":
+            f.Error(kind.Pos, "constraints.kind", $"unknown constraint kind '{kind.Value}'{NameSuggester.Hint(kind.Value, Grammar.Kinds)}; known: {string.Join(", ", Grammar.Kinds)}");
+            return null;
+        }
+
+        var pos = f.Pos(map);
+        switch (variant.Value)
+        {
+            case ConstraintKind.Bounds:
                 {
-                    var e = f.Entries(map, "a bounds constraint", ["kind", "on", "min", "max"]);
+                    var e = f.Entries(map, "a bounds constraint", variant.Section);
                     var on = e.TryGetValue("on", out var o) ? f.TextList(o.Value, "constraints.on") : null;
                     double? min = e.TryGetValue("min", out var mn) ? f.Number(mn.Value, "constraints.min") : null;
                     double? max = e.TryGetValue("max", out var mx) ? f.Number(mx.Value, "constraints.max") : null;
@@ -80,14 +87,14 @@ internal static class ConstraintReader
                     return new BoundsConstraint(label, pos, on, min, max);
                 }
 
-            case "increasing" or "decreasing" or "convex" or "concave":
+            case ConstraintKind.Increasing or ConstraintKind.Decreasing or ConstraintKind.Convex or ConstraintKind.Concave:
                 {
-                    var e = f.Entries(map, $"a {kind.Value} constraint", ["kind", "in", "over", "at", "grid"]);
-                    var shape = kind.Value switch
+                    var e = f.Entries(map, $"a {kind.Value} constraint", variant.Section);
+                    var shape = variant.Value switch
                     {
-                        "increasing" => ShapeKind.Increasing,
-                        "decreasing" => ShapeKind.Decreasing,
-                        "convex" => ShapeKind.Convex,
+                        ConstraintKind.Increasing => ShapeKind.Increasing,
+                        ConstraintKind.Decreasing => ShapeKind.Decreasing,
+                        ConstraintKind.Convex => ShapeKind.Convex,
                         _ => ShapeKind.Concave,
                     };
                     SpecText? input = null;
@@ -112,11 +119,12 @@ internal static class ConstraintReader
 
                     var at = e.TryGetValue("at", out var atNode) ? f.NumberMap(atNode.Value, "constraints.at") ?? [] : [];
                     int? grid = null;
+                    var grids = variant.Section.RangeOf("grid");
                     if (e.TryGetValue("grid", out var g) && f.Integer(g.Value, "constraints.grid") is { } gi)
                     {
-                        if (gi is < 2 or > 100000)
+                        if (!grids.Contains(gi))
                         {
-                            f.Error(g.Value, "constraints.grid", $"grid must be between 2 and 100000 points, got {gi}");
+                            f.Error(g.Value, "constraints.grid", $"grid must be {grids.Describe()} points, got {gi}");
                         }
 
                         grid = gi;
@@ -131,9 +139,9 @@ internal static class ConstraintReader
                     return new ShapeConstraint($"{kind.Value} in {input.Value} over [{Num(r.Item1)}, {Num(r.Item2)}]{atText}", pos, shape, input, r.Item1, r.Item2, at, grid);
                 }
 
-            case "value":
+            case ConstraintKind.Value:
                 {
-                    var e = f.Entries(map, "a value constraint", ["kind", "at", "equals", "min", "max"]);
+                    var e = f.Entries(map, "a value constraint", variant.Section);
                     IReadOnlyList<KeyValuePair<string, double>> at = [];
                     if (!e.TryGetValue("at", out var atNode))
                     {
@@ -173,9 +181,9 @@ internal static class ConstraintReader
                     return new ValueConstraint($"f({point}) {rel}", pos, at, eq, min, max);
                 }
 
-            case "residuals":
+            case ConstraintKind.Residuals:
                 {
-                    var e = f.Entries(map, "a residuals constraint", ["kind", "max-abs"]);
+                    var e = f.Entries(map, "a residuals constraint", variant.Section);
                     if (!e.TryGetValue("max-abs", out var ma))
                     {
                         f.Error(map, "constraints.max-abs", "a residuals constraint needs 'max-abs:' (0 or more)");
@@ -187,9 +195,10 @@ internal static class ConstraintReader
                         return null;
                     }
 
-                    if (limit < 0)
+                    var limits = variant.Section.RangeOf("max-abs");
+                    if (!limits.Contains(limit))
                     {
-                        f.Error(ma.Value, "constraints.max-abs", $"max-abs must be 0 or more, got {Num(limit)}");
+                        f.Error(ma.Value, "constraints.max-abs", $"max-abs must be {limits.Describe()}, got {Num(limit)}");
                         return null;
                     }
 
@@ -197,8 +206,7 @@ internal static class ConstraintReader
                 }
 
             default:
-                f.Error(kind.Pos, "constraints.kind", $"unknown constraint kind '{kind.Value}'{NameSuggester.Hint(kind.Value, KindNames)}; known: {string.Join(", ", KindNames)}");
-                return null;
+                throw new InvalidOperationException($"constraint kind '{kind.Value}' is in the grammar but has no reader");
         }
     }
 

@@ -1,27 +1,13 @@
 using FitSpec.Diagnostics;
+using FitSpec.Spec.Schema;
 using YamlDotNet.RepresentationModel;
 
 namespace FitSpec.Spec;
 
-/// <summary>Reads the loss: a kind name, or {kind: ..., parameter: ...}.</summary>
+/// <summary>Reads the loss: a kind name, or {kind: ..., parameter: ...}; kinds and parameters come from <see cref="SpecGrammar.Loss"/>.</summary>
 internal static class LossReader
 {
-    private sealed record KindInfo(LossKind Kind, string? Parameter, Func<double, bool>? Valid, string? Rule);
-
-    private static readonly Dictionary<string, KindInfo> Kinds = new(StringComparer.Ordinal)
-    {
-        ["l2"] = new(LossKind.L2, null, null, null),
-        ["l1"] = new(LossKind.L1, null, null, null),
-        ["linf"] = new(LossKind.Linf, null, null, null),
-        ["minimax"] = new(LossKind.Linf, null, null, null),
-        ["quantile"] = new(LossKind.Quantile, "tau", x => x > 0 && x < 1, "strictly between 0 and 1"),
-        ["huber"] = new(LossKind.Huber, "width", x => x > 0, "greater than 0"),
-        ["deadzone"] = new(LossKind.Deadzone, "width", x => x >= 0, "0 or more"),
-        ["log-barrier"] = new(LossKind.LogBarrier, "limit", x => x > 0, "greater than 0"),
-        ["lp"] = new(LossKind.Lp, "p", x => x > 1, "greater than 1"),
-        ["truncated-l2"] = new(LossKind.TruncatedL2, "cap", x => x > 0, "greater than 0"),
-        ["none"] = new(LossKind.None, null, null, null),
-    };
+    private static KindedShape<LossKind> Grammar => SpecGrammar.Loss;
 
     public static LossSpec? Read(YamlFields f, YamlNode node)
     {
@@ -33,13 +19,14 @@ internal static class LossReader
                 return null;
             }
 
-            if (info.Parameter is not null)
+            if (Parameter(info) is { } needed)
             {
-                f.Error(node, "loss", $"loss '{kindText.Value}' needs a parameter: write loss: {{kind: {kindText.Value}, {info.Parameter}: ...}}");
+                f.Error(node, "loss", $"loss '{kindText.Value}' needs a parameter: write loss: {{kind: {kindText.Value}, {needed.Name}: ...}}");
                 return null;
             }
 
-            return new LossSpec(info.Kind, kindText.Value, null, f.Pos(node));
+            // The bare word is kept as written (reports say "minimax" where the spec does).
+            return new LossSpec(info.Value, kindText.Value, null, f.Pos(node));
         }
 
         if (f.Mapping(node, "loss") is not { } map)
@@ -47,10 +34,10 @@ internal static class LossReader
             return null;
         }
 
-        var e = f.Entries(map, "loss", ["kind", "tau", "width", "limit", "p", "cap"]);
-        if (!e.TryGetValue("kind", out var k))
+        var e = f.Entries(map, "loss", Grammar.Union);
+        if (!e.TryGetValue(KindedShape.Discriminator, out var k))
         {
-            f.Error(map, "loss.kind", "loss needs 'kind:' (l2, l1, linf, quantile, huber, deadzone, log-barrier, lp, truncated-l2, none)");
+            f.Error(map, "loss.kind", $"loss needs 'kind:' ({string.Join(", ", Grammar.Variants.Where(v => v.AliasOf is null).Select(v => v.Kind))})");
             return null;
         }
 
@@ -59,49 +46,50 @@ internal static class LossReader
             return null;
         }
 
-        double? parameter = null;
-        foreach (var (key, entry) in e)
+        var parameterKey = Parameter(found);
+        var own = e.Narrow(found.Section, (key, keyNode) =>
         {
-            if (key == "kind")
+            var expected = parameterKey is null ? "no parameters" : $"only '{parameterKey.Name}'";
+            f.Error(keyNode, $"loss.{key}", $"loss '{kind.Value}' takes {expected}, not '{key}'");
+        });
+
+        double? parameter = null;
+        if (parameterKey is not null)
+        {
+            var range = found.Section.RangeOf(parameterKey.Name);
+            if (!own.TryGetValue(parameterKey.Name, out var entry))
             {
-                continue;
+                f.Error(map, $"loss.{parameterKey.Name}", $"loss '{kind.Value}' needs '{parameterKey.Name}:' ({range.Describe()})");
+                return null;
             }
 
-            if (key != found.Parameter)
+            if (f.Number(entry.Value, $"loss.{parameterKey.Name}") is { } x)
             {
-                var expected = found.Parameter is null ? "no parameters" : $"only '{found.Parameter}'";
-                f.Error(entry.Key, $"loss.{key}", $"loss '{kind.Value}' takes {expected}, not '{key}'");
-                continue;
-            }
-
-            if (f.Number(entry.Value, $"loss.{key}") is { } x)
-            {
-                if (!found.Valid!(x))
+                if (!range.Contains(x))
                 {
-                    f.Error(entry.Value, $"loss.{key}", $"{key} for loss '{kind.Value}' must be {found.Rule}, got {x}");
+                    f.Error(entry.Value, $"loss.{parameterKey.Name}", $"{parameterKey.Name} for loss '{kind.Value}' must be {range.Describe()}, got {x}");
                 }
 
                 parameter = x;
             }
         }
 
-        if (found.Parameter is not null && !e.ContainsKey(found.Parameter))
-        {
-            f.Error(map, $"loss.{found.Parameter}", $"loss '{kind.Value}' needs '{found.Parameter}:' ({found.Rule})");
-            return null;
-        }
-
-        return new LossSpec(found.Kind, kind.Value == "minimax" ? "linf" : kind.Value, parameter, f.Pos(map));
+        return new LossSpec(found.Value, Canonical(found), parameter, f.Pos(map));
     }
 
-    private static KindInfo? Lookup(YamlFields f, SpecText kind)
+    // A loss kind takes at most one parameter: the key of its section after the discriminator.
+    private static KeySpec? Parameter(KindVariant<LossKind> kind) => kind.Section.Keys.Skip(1).SingleOrDefault();
+
+    private static string Canonical(KindVariant<LossKind> kind) => kind.AliasOf ?? kind.Kind;
+
+    private static KindVariant<LossKind>? Lookup(YamlFields f, SpecText kind)
     {
-        if (Kinds.TryGetValue(kind.Value, out var info))
+        if (Grammar.Find(kind.Value) is { } info)
         {
             return info;
         }
 
-        f.Error(kind.Pos, "loss.kind", $"unknown loss '{kind.Value}'{NameSuggester.Hint(kind.Value, Kinds.Keys)}; known: {string.Join(", ", Kinds.Keys)}");
+        f.Error(kind.Pos, "loss.kind", $"unknown loss '{kind.Value}'{NameSuggester.Hint(kind.Value, Grammar.Kinds)}; known: {string.Join(", ", Grammar.Kinds)}");
         return null;
     }
 }

@@ -1,4 +1,5 @@
 using FitSpec.Diagnostics;
+using FitSpec.Spec.Schema;
 using YamlDotNet.RepresentationModel;
 
 namespace FitSpec.Spec;
@@ -6,7 +7,7 @@ namespace FitSpec.Spec;
 /// <summary>Reads penalties: a list of {kind, weight, on, ...}.</summary>
 internal static class PenaltyReader
 {
-    private static readonly string[] KindNames = ["l1", "l2", "smoothness", "count"];
+    private static KindedShape<PenaltyKind> Grammar => SpecGrammar.Penalty;
 
     public static IReadOnlyList<PenaltySpec> Read(YamlFields f, YamlNode node)
     {
@@ -34,57 +35,41 @@ internal static class PenaltyReader
             return null;
         }
 
-        var e = f.Entries(map, "a penalty", ["kind", "weight", "on", "order", "norm", "max"]);
-        if (!e.TryGetValue("kind", out var k) || f.Text(k.Value, "penalties.kind") is not { } kindText)
+        var e = f.Entries(map, "a penalty", Grammar.Union);
+        if (!e.TryGetValue(KindedShape.Discriminator, out var k) || f.Text(k.Value, "penalties.kind") is not { } kindText)
         {
-            if (!e.ContainsKey("kind"))
+            if (!e.ContainsKey(KindedShape.Discriminator))
             {
-                f.Error(map, "penalties.kind", "a penalty needs 'kind:' (l1, l2, smoothness or count)");
+                f.Error(map, "penalties.kind", $"a penalty needs 'kind:' ({YamlFields.Or(Grammar.Kinds)})");
             }
 
             return null;
         }
 
-        PenaltyKind? kind = kindText.Value switch
+        if (Grammar.Find(kindText.Value) is not { } variant)
         {
-            "l1" => PenaltyKind.L1,
-            "l2" => PenaltyKind.L2,
-            "smoothness" => PenaltyKind.Smoothness,
-            "count" => PenaltyKind.Count,
-            _ => null,
-        };
-        if (kind is null)
-        {
-            f.Error(kindText.Pos, "penalties.kind", $"unknown penalty '{kindText.Value}'{NameSuggester.Hint(kindText.Value, KindNames)}; known: {string.Join(", ", KindNames)}");
+            f.Error(kindText.Pos, "penalties.kind", $"unknown penalty '{kindText.Value}'{NameSuggester.Hint(kindText.Value, Grammar.Kinds)}; known: {string.Join(", ", Grammar.Kinds)}");
             return null;
         }
 
-        var allowed = kind switch
-        {
-            PenaltyKind.Smoothness => new[] { "kind", "weight", "on", "order", "norm" },
-            PenaltyKind.Count => ["kind", "on", "max"],
-            _ => ["kind", "weight", "on"],
-        };
-        foreach (var (key, entry) in e)
-        {
-            if (!allowed.Contains(key))
-            {
-                f.Error(entry.Key, $"penalties.{key}", $"penalty '{kindText.Value}' does not take '{key}'; it takes {string.Join(", ", allowed.Skip(1))}");
-            }
-        }
+        var kind = variant.Value;
+        var section = variant.Section;
+        var own = e.Narrow(section, (key, keyNode) =>
+            f.Error(keyNode, $"penalties.{key}", $"penalty '{kindText.Value}' does not take '{key}'; it takes {string.Join(", ", section.Names.Skip(1))}"));
 
         double weight = 0;
-        if (kind != PenaltyKind.Count)
+        if (section.Has("weight"))
         {
-            if (!e.TryGetValue("weight", out var w))
+            var weights = section.RangeOf("weight");
+            if (!own.TryGetValue("weight", out var w))
             {
-                f.Error(map, "penalties.weight", $"penalty '{kindText.Value}' needs 'weight:' (0 or more)");
+                f.Error(map, "penalties.weight", $"penalty '{kindText.Value}' needs 'weight:' ({weights.Describe()})");
             }
             else if (f.Number(w.Value, "penalties.weight") is { } x)
             {
-                if (x < 0)
+                if (!weights.Contains(x))
                 {
-                    f.Error(w.Value, "penalties.weight", $"penalty weight must be 0 or more, got {x}");
+                    f.Error(w.Value, "penalties.weight", $"penalty weight must be {weights.Describe()}, got {x}");
                 }
 
                 weight = x;
@@ -92,14 +77,15 @@ internal static class PenaltyReader
         }
 
         int? order = null;
-        if (kind == PenaltyKind.Smoothness)
+        if (section.Has("order"))
         {
             order = 2;
-            if (e.TryGetValue("order", out var o) && f.Integer(o.Value, "penalties.order") is { } oi)
+            var orders = section.RangeOf("order");
+            if (own.TryGetValue("order", out var o) && f.Integer(o.Value, "penalties.order") is { } oi)
             {
-                if (oi is < 1 or > 10)
+                if (!orders.Contains(oi))
                 {
-                    f.Error(o.Value, "penalties.order", $"smoothness order must be between 1 and 10, got {oi}");
+                    f.Error(o.Value, "penalties.order", $"smoothness order must be {orders.Describe()}, got {oi}");
                 }
 
                 order = oi;
@@ -107,35 +93,32 @@ internal static class PenaltyReader
         }
 
         var normL1 = false;
-        if (e.TryGetValue("norm", out var nn) && f.Text(nn.Value, "penalties.norm") is { } norm)
+        if (section.Has("norm") && own.TryGetValue("norm", out var nn) && f.Text(nn.Value, "penalties.norm") is { } norm
+            && !SpecGrammar.SmoothnessNorms.TryGet(norm.Value, out normL1))
         {
-            if (norm.Value is not "l1" and not "l2")
-            {
-                f.Error(norm.Pos, "penalties.norm", $"smoothness norm must be l1 or l2, got '{norm.Value}'");
-            }
-
-            normL1 = norm.Value == "l1";
+            f.Error(norm.Pos, "penalties.norm", $"smoothness norm must be {YamlFields.Or(SpecGrammar.SmoothnessNorms.Primary)}, got '{norm.Value}'");
         }
 
         int? max = null;
-        if (kind == PenaltyKind.Count)
+        if (section.Has("max"))
         {
-            if (!e.TryGetValue("max", out var m))
+            var counts = section.RangeOf("max");
+            if (!own.TryGetValue("max", out var m))
             {
-                f.Error(map, "penalties.max", "penalty 'count' needs 'max:' (the most coefficients allowed to be non-zero)");
+                f.Error(map, "penalties.max", $"penalty '{kindText.Value}' needs 'max:' (the most coefficients allowed to be non-zero)");
             }
             else if (f.Integer(m.Value, "penalties.max") is { } mi)
             {
-                if (mi < 0)
+                if (!counts.Contains(mi))
                 {
-                    f.Error(m.Value, "penalties.max", $"count max must be 0 or more, got {mi}");
+                    f.Error(m.Value, "penalties.max", $"count max must be {counts.Describe()}, got {mi}");
                 }
 
                 max = mi;
             }
         }
 
-        var on = e.TryGetValue("on", out var onNode) ? f.TextList(onNode.Value, "penalties.on") : null;
-        return new PenaltySpec(kind.Value, kindText.Value, weight, on, order, normL1, max, f.Pos(map));
+        var on = own.TryGetValue("on", out var onNode) ? f.TextList(onNode.Value, "penalties.on") : null;
+        return new PenaltySpec(kind, kindText.Value, weight, on, order, normL1, max, f.Pos(map));
     }
 }

@@ -1,5 +1,6 @@
 using System.Text.RegularExpressions;
 using FitSpec.Diagnostics;
+using FitSpec.Spec.Schema;
 using YamlDotNet.Core;
 using YamlDotNet.RepresentationModel;
 
@@ -11,14 +12,6 @@ public sealed record SpecReadResult(FitSpecDocument? Document, string Name, IRea
 /// <summary>Stage 1: spec file → typed, validated <see cref="FitSpecDocument"/>. Reads no data.</summary>
 public static partial class SpecReader
 {
-    private static readonly string[] TopKeys =
-        ["fitspec", "name", "title", "description", "data", "model", "loss", "penalties", "constraints", "solve", "report"];
-
-    private static readonly string[] DataKeys = ["path", "sqlite", "query", "filter", "weight", "missing"];
-    private static readonly string[] ModelKeys = ["response", "terms"];
-    private static readonly string[] SolveKeys = ["method", "time-limit", "formulation"];
-    private static readonly string[] ReportKeys = ["formats", "accept", "templates"];
-
     /// <summary>Upper bound on spec size; a fit spec is a few kilobytes.</summary>
     public const int MaxSpecBytes = 1 << 20;
 
@@ -46,11 +39,14 @@ public static partial class SpecReader
     }
 
     /// <summary>Parses spec bytes as if read from <paramref name="path"/> (used by tests and by Read).</summary>
-    public static SpecReadResult Parse(string path, byte[] bytes)
+    public static SpecReadResult Parse(string path, byte[] bytes) => Parse(path, bytes, null);
+
+    /// <param name="onKeyRead">Told of every grammar key a reader asks for (see <see cref="SectionEntries"/>).</param>
+    internal static SpecReadResult Parse(string path, byte[] bytes, Action<SectionGrammar, string>? onKeyRead)
     {
         ArgumentNullException.ThrowIfNull(bytes);
         var errors = new List<Diagnostic>();
-        var fields = new YamlFields(path, errors);
+        var fields = new YamlFields(path, errors, onKeyRead);
         var name = DefaultName(path);
         YamlNode? root;
         try
@@ -192,12 +188,12 @@ public static partial class SpecReader
 
     private static FitSpecDocument? ReadTop(YamlFields f, YamlMappingNode top, string path, ref string name)
     {
-        var e = f.Entries(top, "the spec", TopKeys);
+        var e = f.Entries(top, "the spec", SpecGrammar.Root);
         if (!e.TryGetValue("fitspec", out var version))
         {
             f.Error(top, "fitspec", "missing 'fitspec: 1' (the format version) at the top of the spec");
         }
-        else if (f.Integer(version.Value, "fitspec") is { } v && v != 1)
+        else if (f.Integer(version.Value, "fitspec") is { } v && !SpecGrammar.Root.RangeOf("fitspec").Contains(v))
         {
             f.Error(version.Value, "fitspec", $"unsupported format version {v}; this tool reads version 1");
         }
@@ -264,7 +260,7 @@ public static partial class SpecReader
             return null;
         }
 
-        var e = f.Entries(map, "data", DataKeys);
+        var e = f.Entries(map, "data", SpecGrammar.Data);
         SpecText? Get(string key) => e.TryGetValue(key, out var v) ? f.Text(v.Value, $"data.{key}") : null;
         var path = Get("path");
         var sqlite = Get("sqlite");
@@ -291,27 +287,18 @@ public static partial class SpecReader
 
         if (path is not null)
         {
-            var ext = Path.GetExtension(path.Value).ToLowerInvariant();
-            if (ext is not ".csv" and not ".tsv")
+            if (!DataFile().IsMatch(path.Value))
             {
                 f.Error(path.Pos, "data.path", $"data file '{path.Value}' must end in .csv (comma) or .tsv (tab)");
             }
         }
 
         var missing = MissingPolicy.Error;
-        if (e.TryGetValue("missing", out var m) && f.Text(m.Value, "data.missing") is { } mt)
+        if (e.TryGetValue("missing", out var m) && f.Text(m.Value, "data.missing") is { } mt
+            && !SpecGrammar.MissingPolicies.TryGet(mt.Value, out missing))
         {
-            switch (mt.Value)
-            {
-                case "error":
-                    break;
-                case "drop":
-                    missing = MissingPolicy.Drop;
-                    break;
-                default:
-                    f.Error(mt.Pos, "data.missing", $"data.missing must be 'error' or 'drop', got '{mt.Value}'");
-                    break;
-            }
+            var words = SpecGrammar.MissingPolicies.Primary.Select(w => $"'{w}'").ToList();
+            f.Error(mt.Pos, "data.missing", $"data.missing must be {YamlFields.Or(words)}, got '{mt.Value}'");
         }
 
         return new DataSpec(path, sqlite, query, Get("filter"), Get("weight"), missing, f.Pos(map));
@@ -324,7 +311,7 @@ public static partial class SpecReader
             return null;
         }
 
-        var e = f.Entries(map, "model", ModelKeys);
+        var e = f.Entries(map, "model", SpecGrammar.Model);
         SpecText? response = null;
         if (!e.TryGetValue("response", out var r))
         {
@@ -355,30 +342,19 @@ public static partial class SpecReader
             return null;
         }
 
-        var e = f.Entries(map, "solve", SolveKeys);
+        var e = f.Entries(map, "solve", SpecGrammar.Solve);
         var method = SolveMethod.Auto;
-        if (e.TryGetValue("method", out var m) && f.Text(m.Value, "solve.method") is { } mt)
+        var methods = SpecGrammar.SolveMethods;
+        if (e.TryGetValue("method", out var m) && f.Text(m.Value, "solve.method") is { } mt && !methods.TryGet(mt.Value, out method))
         {
-            method = mt.Value switch
-            {
-                "auto" => SolveMethod.Auto,
-                "qr" => SolveMethod.Qr,
-                "simplex" => SolveMethod.Simplex,
-                "ipm" => SolveMethod.Ipm,
-                _ => Bad(),
-            };
-
-            SolveMethod Bad()
-            {
-                f.Error(mt.Pos, "solve.method", $"solve.method must be auto, qr, simplex or ipm, got '{mt.Value}'{NameSuggester.Hint(mt.Value, ["auto", "qr", "simplex", "ipm"])}");
-                return SolveMethod.Auto;
-            }
+            f.Error(mt.Pos, "solve.method", $"solve.method must be {YamlFields.Or(methods.Primary)}, got '{mt.Value}'{NameSuggester.Hint(mt.Value, methods.Words)}");
+            method = SolveMethod.Auto;
         }
 
         double? limit = null;
         if (e.TryGetValue("time-limit", out var tl) && f.Number(tl.Value, "solve.time-limit") is { } seconds)
         {
-            if (seconds <= 0)
+            if (!SpecGrammar.Solve.RangeOf("time-limit").Contains(seconds))
             {
                 f.Error(tl.Value, "solve.time-limit", $"solve.time-limit must be a positive number of seconds, got {seconds}");
             }
@@ -387,22 +363,11 @@ public static partial class SpecReader
         }
 
         var form = LpForm.Auto;
-        if (e.TryGetValue("formulation", out var fo) && f.Text(fo.Value, "solve.formulation") is { } ft)
+        if (e.TryGetValue("formulation", out var fo) && f.Text(fo.Value, "solve.formulation") is { } ft
+            && !SpecGrammar.LpForms.TryGet(ft.Value, out form))
         {
-            switch (ft.Value)
-            {
-                case "auto":
-                    break;
-                case "primal":
-                    form = LpForm.Primal;
-                    break;
-                case "dual":
-                    form = LpForm.Dual;
-                    break;
-                default:
-                    f.Error(ft.Pos, "solve.formulation", $"solve.formulation must be auto, primal or dual, got '{ft.Value}'");
-                    break;
-            }
+            f.Error(ft.Pos, "solve.formulation", $"solve.formulation must be {YamlFields.Or(SpecGrammar.LpForms.Primary)}, got '{ft.Value}'");
+            form = LpForm.Auto;
         }
 
         return new SolveSpec(method, limit, form);
@@ -415,20 +380,13 @@ public static partial class SpecReader
             return null;
         }
 
-        var e = f.Entries(map, "report", ReportKeys);
+        var e = f.Entries(map, "report", SpecGrammar.Report);
         var formats = new List<ReportFormat>();
         if (e.TryGetValue("formats", out var fm) && f.TextList(fm.Value, "report.formats") is { } list)
         {
             foreach (var item in list)
             {
-                ReportFormat? format = item.Value switch
-                {
-                    "html" => ReportFormat.Html,
-                    "md" or "markdown" => ReportFormat.Md,
-                    "json" => ReportFormat.Json,
-                    _ => null,
-                };
-                if (format is { } fmt)
+                if (SpecGrammar.ReportFormats.TryGet(item.Value, out var fmt))
                 {
                     if (!formats.Contains(fmt))
                     {
@@ -437,7 +395,7 @@ public static partial class SpecReader
                 }
                 else
                 {
-                    f.Error(item.Pos, "report.formats", $"unknown report format '{item.Value}'; use html, md or json");
+                    f.Error(item.Pos, "report.formats", $"unknown report format '{item.Value}'; use {YamlFields.Or(SpecGrammar.ReportFormats.Primary)}");
                 }
             }
         }
@@ -448,7 +406,8 @@ public static partial class SpecReader
 
         var accept = e.TryGetValue("accept", out var a) ? f.TextList(a.Value, "report.accept") ?? [] : [];
         var templates = e.TryGetValue("templates", out var tp) ? f.Text(tp.Value, "report.templates") : null;
-        return new ReportSpec(formats, accept, templates);
+        var uncertainty = e.TryGetValue("uncertainty", out var u) ? UncertaintyReader.Read(f, u.Value) : null;
+        return new ReportSpec(formats, accept, templates) { Uncertainty = uncertainty };
     }
 
     /// <summary>The fit name implied by a spec's file name: without .fit.yaml (or .yaml/.yml).</summary>
@@ -466,6 +425,9 @@ public static partial class SpecReader
         return file;
     }
 
-    [GeneratedRegex("^[a-z0-9._-]+$")]
+    [GeneratedRegex(SpecGrammar.FitNamePattern)]
     private static partial Regex ValidName();
+
+    [GeneratedRegex(SpecGrammar.DataFilePattern)]
+    private static partial Regex DataFile();
 }

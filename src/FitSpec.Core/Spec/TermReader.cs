@@ -1,4 +1,5 @@
 using System.Text.RegularExpressions;
+using FitSpec.Spec.Schema;
 using YamlDotNet.RepresentationModel;
 
 namespace FitSpec.Spec;
@@ -6,7 +7,8 @@ namespace FitSpec.Spec;
 /// <summary>Reads model.terms: coefficient name → constant, column, expression or basis expander.</summary>
 internal static partial class TermReader
 {
-    private static readonly string[] ExpanderKinds = ["polynomial", "spline", "columns"];
+    // An expander is named by its first key; a term with several is read as the first listed.
+    private static readonly string[] ExpanderKinds = [.. SpecGrammar.TermExpanders.Select(s => s.Names[0])];
 
     public static IReadOnlyList<TermSpec> Read(YamlFields f, YamlNode node)
     {
@@ -78,7 +80,8 @@ internal static partial class TermReader
         {
             case "polynomial":
                 {
-                    var e = f.Entries(map, $"polynomial term '{key}'", ["polynomial", "degree"]);
+                    var grammar = SpecGrammar.Polynomial;
+                    var e = f.Entries(map, $"polynomial term '{key}'", grammar);
                     var input = f.Text(e["polynomial"].Value, field);
                     if (!e.TryGetValue("degree", out var dn))
                     {
@@ -87,9 +90,10 @@ internal static partial class TermReader
                     }
 
                     var degree = f.Integer(dn.Value, $"{field}.degree");
-                    if (degree is < 1 or > 30)
+                    var degrees = grammar.RangeOf("degree");
+                    if (degree is { } dv && !degrees.Contains(dv))
                     {
-                        f.Error(dn.Value, $"{field}.degree", $"polynomial degree must be between 1 and 30, got {degree}");
+                        f.Error(dn.Value, $"{field}.degree", $"polynomial degree must be {degrees.Describe()}, got {degree}");
                         return null;
                     }
 
@@ -98,14 +102,16 @@ internal static partial class TermReader
 
             case "spline":
                 {
-                    var e = f.Entries(map, $"spline term '{key}'", ["spline", "knots", "degree", "at"]);
+                    var grammar = SpecGrammar.Spline;
+                    var e = f.Entries(map, $"spline term '{key}'", grammar);
                     var input = f.Text(e["spline"].Value, field);
                     var degree = 3;
+                    var degrees = grammar.RangeOf("degree");
                     if (e.TryGetValue("degree", out var dn) && f.Integer(dn.Value, $"{field}.degree") is { } d)
                     {
-                        if (d is < 0 or > 10)
+                        if (!degrees.Contains(d))
                         {
-                            f.Error(dn.Value, $"{field}.degree", $"spline degree must be between 0 and 10, got {d}");
+                            f.Error(dn.Value, $"{field}.degree", $"spline degree must be {degrees.Describe()}, got {d}");
                         }
 
                         degree = d;
@@ -134,12 +140,14 @@ internal static partial class TermReader
                     }
 
                     int? knots = null;
+                    var knotCounts = grammar.RangeOf("knots");
+                    var fewest = NumberRange.Num(knotCounts.Min ?? 0);
                     if (e.TryGetValue("knots", out var kn))
                     {
                         knots = f.Integer(kn.Value, $"{field}.knots");
-                        if (knots is < 2)
+                        if (knots is { } kv && !knotCounts.Contains(kv))
                         {
-                            f.Error(kn.Value, $"{field}.knots", $"a spline needs at least 2 knots (both boundary knots count), got {knots}");
+                            f.Error(kn.Value, $"{field}.knots", $"a spline needs at least {fewest} knots (both boundary knots count), got {knots}");
                         }
 
                         if (knots is { } kk && at is not null && at.Count != kk)
@@ -153,26 +161,26 @@ internal static partial class TermReader
                     }
                     else
                     {
-                        f.Error(map, field, $"spline term '{key}' needs 'knots:' (at least 2) or 'at: [...]'");
+                        f.Error(map, field, $"spline term '{key}' needs 'knots:' (at least {fewest}) or 'at: [...]'");
                     }
 
-                    if (at is not null && at.Count < 2)
+                    if (at is not null && !knotCounts.Contains(at.Count))
                     {
-                        f.Error(map, $"{field}.at", "a spline needs at least 2 knots in 'at:'");
+                        f.Error(map, $"{field}.at", $"a spline needs at least {fewest} knots in 'at:'");
                         return null;
                     }
 
-                    return input is null || knots is not >= 2 ? null : new SplineTerm(key, pos, input, knots.Value, degree, at);
+                    return input is null || knots is not { } count || !knotCounts.Contains(count) ? null : new SplineTerm(key, pos, input, knots.Value, degree, at);
                 }
 
             default:
                 {
-                    var e = f.Entries(map, $"columns term '{key}'", ["columns"]);
+                    var e = f.Entries(map, $"columns term '{key}'", SpecGrammar.Columns);
                     return f.Text(e["columns"].Value, field) is { } glob ? new ColumnsTerm(key, pos, glob) : null;
                 }
         }
     }
 
-    [GeneratedRegex("^[A-Za-z_][A-Za-z0-9_]*$")]
+    [GeneratedRegex(SpecGrammar.CoefficientNamePattern)]
     private static partial Regex CoefficientName();
 }

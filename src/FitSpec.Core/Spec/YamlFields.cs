@@ -1,5 +1,6 @@
 using System.Globalization;
 using FitSpec.Diagnostics;
+using FitSpec.Spec.Schema;
 using YamlDotNet.Core;
 using YamlDotNet.RepresentationModel;
 
@@ -12,11 +13,14 @@ namespace FitSpec.Spec;
 internal sealed class YamlFields
 {
     private readonly List<Diagnostic> _errors;
+    private readonly Action<SectionGrammar, string>? _onKeyRead;
 
-    public YamlFields(string file, List<Diagnostic> errors)
+    /// <param name="onKeyRead">Told of every key a reader asks for (tests use it to find grammar keys no reader reads).</param>
+    public YamlFields(string file, List<Diagnostic> errors, Action<SectionGrammar, string>? onKeyRead = null)
     {
         File = file;
         _errors = errors;
+        _onKeyRead = onKeyRead;
     }
 
     public string File { get; }
@@ -28,10 +32,14 @@ internal sealed class YamlFields
     public void Error(SourcePos pos, string? field, string message) =>
         _errors.Add(new Diagnostic(pos.File, pos.Line, pos.Column, field, message));
 
-    /// <summary>The mapping's entries by key, after rejecting unknown and duplicate keys with a did-you-mean.</summary>
-    public Dictionary<string, (YamlScalarNode Key, YamlNode Value)> Entries(
-        YamlMappingNode map, string where, IReadOnlyCollection<string> allowed)
+    /// <summary>
+    /// The mapping's entries by key, after rejecting keys that <paramref name="section"/> does not define
+    /// (with a did-you-mean) and duplicate keys.
+    /// </summary>
+    public SectionEntries Entries(YamlMappingNode map, string where, SectionGrammar section)
     {
+        ArgumentNullException.ThrowIfNull(section);
+        var allowed = section.Names;
         var result = new Dictionary<string, (YamlScalarNode, YamlNode)>(StringComparer.Ordinal);
         foreach (var (keyNode, value) in map.Children)
         {
@@ -54,7 +62,7 @@ internal sealed class YamlFields
             }
         }
 
-        return result;
+        return new SectionEntries(section, result, _onKeyRead);
     }
 
     public YamlMappingNode? Mapping(YamlNode node, string field)
@@ -173,6 +181,10 @@ internal sealed class YamlFields
 
         return result;
     }
+
+    /// <summary>Words joined for a message: "a", "a or b", "a, b or c".</summary>
+    public static string Or(IReadOnlyList<string> words) =>
+        words.Count <= 1 ? string.Concat(words) : $"{string.Join(", ", words.Take(words.Count - 1))} or {words[^1]}";
 
     public static string Describe(YamlNode node) => node switch
     {

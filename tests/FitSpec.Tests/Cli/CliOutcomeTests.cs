@@ -66,8 +66,10 @@ public sealed class CliOutcomeTests
         var outDir = Path.Combine(cli.Folder, "out");
         var results = Directory.GetFiles(outDir, "*.result.json");
         Assert.Equal(count, results.Length);
-        Assert.Equal(count, Directory.GetFiles(outDir, "*.md").Length);
-        Assert.Equal(count, Directory.GetFiles(outDir, "*.html").Length);
+        // Besides each fit's reports, the run's own index pages (index.md, index.html).
+        Assert.Equal(count + 1, Directory.GetFiles(outDir, "*.md").Length);
+        Assert.Equal(count + 1, Directory.GetFiles(outDir, "*.html").Length);
+        Assert.True(File.Exists(Path.Combine(outDir, "index.md")) && File.Exists(Path.Combine(outDir, "index.html")), "index pages missing");
         foreach (var file in results)
         {
             var result = JsonDocument.Parse(File.ReadAllText(file)).RootElement;

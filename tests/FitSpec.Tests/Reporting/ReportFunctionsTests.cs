@@ -28,6 +28,34 @@ public sealed class ReportFunctionsTests
     }
 
     [Fact]
+    public void Brief_numbers_and_percentages_keep_four_digits()
+    {
+        Assert.Equal("0.01235", ReportFunctions.BriefNumber(0.012345678));
+        Assert.Equal("8E+05", ReportFunctions.BriefNumber(800012.3456));
+        Assert.Equal("—", ReportFunctions.BriefNumber(double.NaN));
+        Assert.Equal("95%", ReportFunctions.Percent(0.95));
+        Assert.Equal("99.73%", ReportFunctions.Percent(0.9973));
+        Assert.Equal("—", ReportFunctions.Percent(null));
+    }
+
+    [Fact]
+    public void Prose_turns_backticked_parts_into_code_and_escapes_the_rest()
+    {
+        Assert.Equal("relaxing <code>b1 &gt;= 0</code> by 0.1 &amp; more", ReportFunctions.HtmlProse("relaxing `b1 >= 0` by 0.1 & more"));
+        Assert.Equal("an unpaired ` stays", ReportFunctions.HtmlProse("an unpaired ` stays"));
+        Assert.Equal("relaxing `b1 >= 0` by \\*0.1\\*", ReportFunctions.MarkdownProse("relaxing `b1 >= 0` by *0.1*"));
+        Assert.Equal("\\<b\\> `<b>`", ReportFunctions.MarkdownProse("<b> `<b>`"));
+    }
+
+    [Fact]
+    public void Link_targets_are_percent_encoded_per_segment()
+    {
+        Assert.Equal("lc7-calibration.fit.svg", ReportFunctions.LinkTarget("lc7-calibration.fit.svg"));
+        Assert.Equal("a%20b%28c%29.qq.svg", ReportFunctions.LinkTarget("a b(c).qq.svg"));
+        Assert.Equal("sub/x%5D.svg", ReportFunctions.LinkTarget("sub/x].svg"));
+    }
+
+    [Fact]
     public void Flags_read_as_words()
     {
         Assert.Equal("yes", ReportFunctions.YesNo(true));
@@ -51,6 +79,7 @@ public sealed class ReportFunctionsTests
         Assert.Equal("a\\|b \\*c\\* \\<d\\> \\[e\\]", ReportFunctions.Markdown("a|b *c* <d> [e]"));
         Assert.Equal("one two", ReportFunctions.Markdown("one\r\ntwo"));
         Assert.Equal("\\# not a heading\nplain\n\\- not a list", ReportFunctions.MarkdownBlock("# not a heading\r\nplain\n- not a list"));
+        Assert.Equal("folded text", ReportFunctions.MarkdownBlock("folded text\n\n"));
     }
 
     [Fact]

@@ -49,11 +49,13 @@ public sealed class ReportRendererTests
     [MemberData(nameof(Formats))]
     public void Sections_appear_in_the_documented_order(ReportFormat format)
     {
-        var text = Visible(ReportRenderer.Render(SampleResults.Optimal(), format), format);
+        var text = Visible(ReportRenderer.Render(SampleSeries.Full(), format), format);
         string[] order =
         [
-            "Thermistor calibration", "OPTIMAL", "Bench run 7.", "Caution.", "What was fitted", "Data", "Coefficients",
-            "Goodness of fit", "Constraints", "Acceptance", "Verification", "Largest residuals", "How it was solved", "Provenance",
+            "Thermistor calibration", "OPTIMAL", "Bench run 7.", "Caution.", "In brief", "What was fitted", "Data", "Coefficients",
+            "Goodness of fit", "Plots", "Constraints", "What the active constraints cost", "Sensitivity ranges", "Acceptance",
+            "Verification", "Largest residuals", "Observations outside the loss's width", "Leverage", "Coefficient uncertainty",
+            "How it was solved", "Provenance",
         ];
         var at = 0;
         foreach (var marker in order)
@@ -167,7 +169,7 @@ public sealed class ReportRendererTests
     [Fact]
     public void Html_is_self_contained()
     {
-        foreach (var result in new[] { SampleResults.Optimal(), SampleResults.Invalid(), SampleResults.Infeasible() })
+        foreach (var result in new[] { SampleResults.Optimal(), SampleResults.Invalid(), SampleResults.Infeasible(), SampleSeries.Full() })
         {
             var html = ReportRenderer.Render(result, ReportFormat.Html);
 
@@ -179,7 +181,10 @@ public sealed class ReportRendererTests
             Assert.DoesNotMatch(new Regex(@"\b(src|href)\s*=", RegexOptions.IgnoreCase), html);
             Assert.DoesNotContain("<link", html, StringComparison.OrdinalIgnoreCase);
             Assert.DoesNotContain("@import", html, StringComparison.OrdinalIgnoreCase);
-            Assert.DoesNotContain("url(", html, StringComparison.OrdinalIgnoreCase);
+            // Plots clip to their frame by url(#id) references to their own clip paths; nothing else is referenced.
+            Assert.Equal(
+                Regex.Matches(html, "url\\(", RegexOptions.IgnoreCase).Count,
+                Regex.Matches(html, "url\\(#fitspec-(fit|residuals|histogram|qq)-clip[0-9]+\\)").Count);
             Assert.EndsWith("</html>\n", html, StringComparison.Ordinal);
         }
     }
@@ -188,28 +193,31 @@ public sealed class ReportRendererTests
     [MemberData(nameof(Formats))]
     public void Rendering_is_deterministic_across_calls_threads_and_cultures(ReportFormat format)
     {
-        var first = ReportRenderer.Render(SampleResults.Optimal(), format);
-        Assert.Equal(first, ReportRenderer.Render(SampleResults.Optimal(), format));
-
-        var parallel = new string[32];
-        Parallel.For(0, parallel.Length, i => parallel[i] = ReportRenderer.Render(SampleResults.Optimal(), format));
-        Assert.All(parallel, p => Assert.Equal(first, p));
-
-        var comma = (CultureInfo)CultureInfo.InvariantCulture.Clone();
-        comma.NumberFormat.NumberDecimalSeparator = ",";
-        comma.NumberFormat.NegativeSign = "~";
-        var saved = CultureInfo.CurrentCulture;
-        try
+        foreach (var make in new Func<FitResult>[] { () => SampleResults.Optimal(), () => SampleSeries.Full() })
         {
-            CultureInfo.CurrentCulture = comma;
-            Assert.Equal(first, ReportRenderer.Render(SampleResults.Optimal(), format));
-        }
-        finally
-        {
-            CultureInfo.CurrentCulture = saved;
-        }
+            var first = ReportRenderer.Render(make(), format);
+            Assert.Equal(first, ReportRenderer.Render(make(), format));
 
-        Assert.DoesNotContain("\r", first, StringComparison.Ordinal);
+            var parallel = new string[32];
+            Parallel.For(0, parallel.Length, i => parallel[i] = ReportRenderer.Render(make(), format));
+            Assert.All(parallel, p => Assert.Equal(first, p));
+
+            var comma = (CultureInfo)CultureInfo.InvariantCulture.Clone();
+            comma.NumberFormat.NumberDecimalSeparator = ",";
+            comma.NumberFormat.NegativeSign = "~";
+            var saved = CultureInfo.CurrentCulture;
+            try
+            {
+                CultureInfo.CurrentCulture = comma;
+                Assert.Equal(first, ReportRenderer.Render(make(), format));
+            }
+            finally
+            {
+                CultureInfo.CurrentCulture = saved;
+            }
+
+            Assert.DoesNotContain("\r", first, StringComparison.Ordinal);
+        }
     }
 
     [Fact]

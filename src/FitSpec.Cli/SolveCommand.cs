@@ -1,0 +1,137 @@
+using System.CommandLine;
+using FitSpec.Pipeline;
+using FitSpec.Pipeline.Batch;
+using FitSpec.Reporting;
+using FitSpec.Spec;
+using Spectre.Console;
+
+namespace FitSpec.Cli;
+
+/// <summary>
+/// `fitspec solve`: a batch of fits into one out folder, in parallel, with a cache, a progress display,
+/// a summary table and the run's index pages.
+/// </summary>
+internal static class SolveCommand
+{
+    public static Command Build()
+    {
+        var specs = new Argument<string[]>("specs") { Arity = ArgumentArity.OneOrMore, Description = "Spec files (*.fit.yaml), folders to search for them, or quoted patterns such as 'specs/**/*.fit.yaml'" };
+        var outDir = new Option<string>("--out") { Description = "Folder for results and reports (created if missing)", Required = true };
+        var formats = new Option<string?>("--format") { Description = "Comma-separated formats to write: html,md,json (default: each spec's report.formats)" };
+        var jobs = new Option<int>("--jobs") { Description = "Fits to run in parallel (default: number of cores)", DefaultValueFactory = _ => Environment.ProcessorCount };
+        var force = new Option<bool>("--force") { Description = "Solve every fit again, even those the cache holds as unchanged" };
+        var stamp = new Option<bool>("--stamp") { Description = "Record wall-clock facts (time of the run, solve seconds) in the outputs; files then differ run to run" };
+        jobs.Validators.Add(result =>
+        {
+            if (result.GetValueOrDefault<int>() < 1)
+            {
+                result.AddError("--jobs must be at least 1");
+            }
+        });
+
+        var command = new Command("solve", "Solve fit specs and write verified results, reports and the run's index pages") { specs, outDir, formats, jobs, force, stamp };
+        command.SetAction(parse =>
+        {
+            var formatList = ParseFormats(parse.GetValue(formats));
+            if (formatList is null)
+            {
+                return 2;
+            }
+
+            var files = SpecDiscovery.Find(parse.GetValue(specs)!, out var missing);
+            foreach (var m in missing)
+            {
+                Console.Error.WriteLine(MissingMessage(m));
+            }
+
+            if (files.Count == 0)
+            {
+                Console.Error.WriteLine("fitspec: error: no spec files (*.fit.yaml) found");
+                return 2;
+            }
+
+            var settings = new RunSettings(RecordedCommandLine.Of(parse.Tokens.Select(t => t.Value).ToList()), parse.GetValue(stamp));
+            var request = new BatchRequest(files, parse.GetValue(outDir)!, formatList, parse.GetValue(jobs), parse.GetValue(force), settings);
+            return Run(request, missing.Count > 0 ? 2 : 0);
+        });
+        return command;
+    }
+
+    /// <summary>The error line for an argument that names nothing (or a pattern that matches no spec).</summary>
+    public static string MissingMessage(string argument) => PathGlob.IsPattern(argument)
+        ? $"{argument}: error: no spec file (*.fit.yaml) or folder matches this pattern"
+        : $"{argument}: error: no such spec file or folder";
+
+    private static int Run(BatchRequest request, int exit)
+    {
+        var interactive = !Console.IsOutputRedirected && AnsiConsole.Profile.Capabilities.Interactive;
+        IBatchProgress progress = interactive ? new BarProgress(AnsiConsole.Console) : new PlainProgress(Console.Out);
+        var runs = progress.Show(request.Specs.Count, finished => BatchRunner.Run(request, finished));
+
+        foreach (var run in runs)
+        {
+            exit = Math.Max(exit, run.ExitCode);
+            foreach (var line in FitLines.Problems(run))
+            {
+                Console.Error.WriteLine(line);
+            }
+        }
+
+        try
+        {
+            IndexPages.Write(request.OutDir, runs, request.Settings);
+        }
+        catch (Exception e) when (e is IOException or UnauthorizedAccessException)
+        {
+            Console.Error.WriteLine($"{request.OutDir}: error: cannot write the index pages: {e.Message}");
+            exit = Math.Max(exit, 2);
+        }
+        catch (ReportTemplateException e)
+        {
+            Console.Error.WriteLine($"fitspec: error: {e.Message.ReplaceLineEndings(" ")}");
+            exit = Math.Max(exit, 2);
+        }
+
+        if (interactive)
+        {
+            SummaryTable.WriteRich(AnsiConsole.Console, runs);
+        }
+        else
+        {
+            SummaryTable.WritePlain(Console.Out, runs);
+        }
+
+        Console.Out.WriteLine(FitLines.Total(runs, exit));
+        return exit;
+    }
+
+    private static List<ReportFormat>? ParseFormats(string? text)
+    {
+        var list = new List<ReportFormat>();
+        if (string.IsNullOrWhiteSpace(text))
+        {
+            return list;
+        }
+
+        foreach (var part in text.Split(',', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries))
+        {
+            switch (part)
+            {
+                case "html":
+                    list.Add(ReportFormat.Html);
+                    break;
+                case "md" or "markdown":
+                    list.Add(ReportFormat.Md);
+                    break;
+                case "json":
+                    list.Add(ReportFormat.Json);
+                    break;
+                default:
+                    Console.Error.WriteLine($"fitspec: error: unknown format '{part}' in --format; use html, md, json");
+                    return null;
+            }
+        }
+
+        return list.Distinct().ToList();
+    }
+}

@@ -1,0 +1,157 @@
+using System.Diagnostics;
+using FitSpec.Diagnostics;
+using FitSpec.Reporting;
+using FitSpec.Results;
+using FitSpec.Spec;
+
+namespace FitSpec.Pipeline.Batch;
+
+/// <summary>
+/// Runs a batch: every spec in parallel (up to Jobs at once), each either taken from the cache or run and
+/// written, one fit's failure never stopping the others. Results come back in the order of the specs.
+/// </summary>
+public static class BatchRunner
+{
+    /// <summary>The name the run's own index pages take in the out folder; no fit may use it.</summary>
+    public const string IndexName = "index";
+
+    /// <param name="request">What to run.</param>
+    /// <param name="finished">Called once per fit as it finishes, one call at a time, with the count done so far.</param>
+    /// <param name="cancellation">Stops starting new fits and is passed to the solves under way.</param>
+    public static IReadOnlyList<FitRun> Run(BatchRequest request, Action<FitRun, int>? finished = null, CancellationToken cancellation = default)
+    {
+        ArgumentNullException.ThrowIfNull(request);
+        var specs = request.Specs;
+        var cache = new FitCache(request.OutDir);
+        var context = KeyContext.For(request.Formats, request.Settings.Stamp);
+        var reads = new SpecReadResult[specs.Count];
+        var parallel = new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, request.Jobs), CancellationToken = cancellation };
+        Parallel.For(0, specs.Count, parallel, i => reads[i] = SpecReader.Read(specs[i]));
+        var clashes = NameClashes(specs, reads);
+
+        var runs = new FitRun[specs.Count];
+        var keys = new string?[specs.Count];
+        var gate = new object();
+        var done = 0;
+        Parallel.For(0, specs.Count, parallel, i =>
+        {
+            var clock = Stopwatch.StartNew();
+            FitRun run;
+            if (clashes.TryGetValue(i, out var clash))
+            {
+                // Its files would overwrite another fit's (or the index pages): report it, write nothing.
+                run = new FitRun(ClashSummary(specs[i], reads[i].Name, clash), FitSource.Skipped, [], [], clock.Elapsed);
+            }
+            else
+            {
+                try
+                {
+                    var key = CacheKey.Compute(specs[i], reads[i], context);
+                    keys[i] = key.Value;
+                    run = RunOne(specs[i], key, request, cache, clock, cancellation);
+                }
+                catch (Exception e) when (e is not OperationCanceledException)
+                {
+                    // A bug here must cost this fit only, never the batch.
+                    var message = $"internal error while running this fit ({e.GetType().Name}: {e.Message}); this is a bug in FitSpec, please report it with the spec and data";
+                    run = new FitRun(ErrorSummary(specs[i], reads[i].Name, message), FitSource.Solved, [], [$"{specs[i]}: error: {message}"], clock.Elapsed);
+                }
+            }
+
+            runs[i] = run;
+            lock (gate)
+            {
+                done++;
+                finished?.Invoke(run, done);
+            }
+        });
+
+        try
+        {
+            cache.Prune(
+                keys.Where(k => k is not null).Select(k => k!).ToHashSet(StringComparer.Ordinal),
+                runs.Select(r => r.Summary.Name).ToHashSet(StringComparer.Ordinal));
+        }
+        catch (Exception e) when (e is IOException or UnauthorizedAccessException)
+        {
+            // Pruning only saves space; the next run tries again.
+        }
+
+        return runs;
+    }
+
+    private static FitRun RunOne(string spec, FitKey key, BatchRequest request, FitCache cache, Stopwatch clock, CancellationToken cancellation)
+    {
+        if (!request.Force && cache.Find(key.Value) is { } hit)
+        {
+            return new FitRun(hit.Summary, FitSource.Cached, hit.Outputs.Select(o => o.Path).ToList(), [], clock.Elapsed);
+        }
+
+        var outcome = FitRunner.RunForOutput(spec, request.Settings, cancellation);
+        var result = outcome.Result;
+        var summary = FitSummary.Of(result);
+        IReadOnlyList<string> written;
+        try
+        {
+            written = OutputWriter.Write(result, request.OutDir, request.Formats.Count > 0 ? request.Formats : outcome.Formats, outcome.TemplateFolder);
+        }
+        catch (Exception e) when (e is IOException or UnauthorizedAccessException)
+        {
+            return new FitRun(summary, FitSource.Solved, [], [$"{request.OutDir}: error: cannot write the results of '{result.Name}': {e.Message}"], clock.Elapsed);
+        }
+        catch (ReportTemplateException e)
+        {
+            return new FitRun(summary, FitSource.Solved, [], [$"{spec}: error: report template: {e.Message.ReplaceLineEndings(" ")}"], clock.Elapsed);
+        }
+
+        var outputs = written.Select(cache.RelativePath).ToList();
+        if (!SameInputs(key, result))
+        {
+            // The spec or data changed while the fit ran: the files are right for what was read, but the key is not.
+            return new FitRun(summary, FitSource.Solved, outputs, [], clock.Elapsed);
+        }
+
+        try
+        {
+            cache.Store(key.Value, summary, written);
+        }
+        catch (Exception e) when (e is IOException or UnauthorizedAccessException)
+        {
+            // Without an entry the fit is solved again next time; its files are written, so nothing is lost.
+        }
+
+        return new FitRun(summary, FitSource.Solved, outputs, [], clock.Elapsed);
+    }
+
+    // The runner read the spec (and data) itself; the result's own hashes say whether it saw what the key hashed.
+    private static bool SameInputs(FitKey key, FitResult result) =>
+        string.Equals(result.Provenance.SpecSha256, key.SpecSha256, StringComparison.Ordinal)
+        && (result.Data is null || string.Equals(result.Data.Sha256, key.DataSha256, StringComparison.Ordinal));
+
+    // Fit names must be unique in one out folder, and 'index' is the run's own: a clashing spec is refused.
+    private static Dictionary<int, string> NameClashes(IReadOnlyList<string> specs, SpecReadResult[] reads)
+    {
+        var firstByName = new Dictionary<string, int>(StringComparer.Ordinal);
+        var clashes = new Dictionary<int, string>();
+        for (var i = 0; i < specs.Count; i++)
+        {
+            var name = reads[i].Name;
+            if (string.Equals(name, IndexName, StringComparison.Ordinal))
+            {
+                clashes[i] = $"fit name '{name}' is taken by the run's index pages ({IndexName}.html, {IndexName}.md) in the out folder; set another 'name:'";
+            }
+            else if (!firstByName.TryAdd(name, i))
+            {
+                clashes[i] = $"fit name '{name}' is also the name of {specs[firstByName[name]]}; names must be unique in one run (set 'name:')";
+            }
+        }
+
+        return clashes;
+    }
+
+    private static FitSummary ClashSummary(string spec, string name, string message) =>
+        ErrorSummary(spec, name, message) with { Errors = [new Diagnostic(spec, null, null, "name", message).ToString()] };
+
+    private static FitSummary ErrorSummary(string spec, string name, string message) =>
+        new(name, null, spec, "error", message, 2, 0, 0, null, null, null, null, null, []);
+}

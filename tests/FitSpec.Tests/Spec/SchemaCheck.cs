@@ -37,13 +37,23 @@ internal static partial class SchemaCheck
     public static IReadOnlyList<string> YamlBlocks(string markdown) =>
         [.. YamlFence().Matches(markdown.Replace("\r\n", "\n", StringComparison.Ordinal)).Select(m => m.Groups[1].Value)];
 
-    /// <summary>SPEC.md, the language contract, in the shared folder beside the repository.</summary>
+    /// <summary>
+    /// SPEC.md, the language contract: in the shared folder beside the repository, or beside the reference folder
+    /// that FITSPEC_REFERENCE_DIR names (how a clone elsewhere finds the shared folder).
+    /// </summary>
     public static string SpecContractPath()
     {
         var root = new DirectoryInfo(CliHarness.RepositoryRoot());
-        var path = Path.Combine(root.Parent?.FullName ?? root.FullName, "shared", "SPEC.md");
-        Assert.True(File.Exists(path), $"the spec language contract is expected at {path} (../shared/SPEC.md beside the repository)");
-        return path;
+        var beside = Path.Combine(root.Parent?.FullName ?? root.FullName, "shared", "SPEC.md");
+        var candidates = new List<string> { beside };
+        if (Environment.GetEnvironmentVariable("FITSPEC_REFERENCE_DIR") is { Length: > 0 } reference)
+        {
+            candidates.Add(Path.Combine(Path.GetDirectoryName(Path.GetFullPath(reference).TrimEnd('/')) ?? reference, "SPEC.md"));
+        }
+
+        var path = candidates.FirstOrDefault(File.Exists);
+        Assert.True(path is not null, $"the spec language contract is expected at {beside} (../shared/SPEC.md beside the repository) or beside FITSPEC_REFERENCE_DIR");
+        return path!;
     }
 
     [GeneratedRegex("^```yaml\\n(.*?)^```", RegexOptions.Multiline | RegexOptions.Singleline)]

@@ -1,6 +1,12 @@
 namespace FitSpec.Results;
 
-/// <summary>Writes a file so that it is either as it was or complete: a temp file in the same folder, then rename.</summary>
+/// <summary>
+/// Writes a file so that it is either as it was or complete: a temp file in the same folder, then rename. A
+/// process that dies (crash, kill, Ctrl-C) leaves no half-written file. The data is not forced to disk per file
+/// (an fsync costs milliseconds, two thirds of a small fit's time in a batch, measured); the rename-replace is
+/// ordered after the data by the usual Linux file systems (ext4's auto_da_alloc, xfs, btrfs), so a power cut
+/// loses at most the newest files, each old or new, not torn.
+/// </summary>
 public static class AtomicFile
 {
     public static void Write(string path, string contents)
@@ -15,7 +21,6 @@ public static class AtomicFile
             {
                 writer.Write(contents);
                 writer.Flush();
-                stream.Flush(flushToDisk: true);
             }
 
             File.Move(temp, path, overwrite: true);

@@ -21,6 +21,10 @@ internal sealed class SignScreeningSolver : IFitSolver
 
     private const int MaxRounds = 12;
 
+    /// <summary>The constant in m = c·√p·n^(2/3); read from FITSPEC_SCREEN_FACTOR when set (for measuring).</summary>
+    private static readonly double SampleFactor =
+        double.TryParse(Environment.GetEnvironmentVariable("FITSPEC_SCREEN_FACTOR"), System.Globalization.CultureInfo.InvariantCulture, out var f) && f > 0 ? f : 2;
+
     public int Priority => 900;
 
     public bool CanSolve(LoweredFit fit, SolveOptions options)
@@ -37,8 +41,8 @@ internal sealed class SignScreeningSolver : IFitSolver
             && SampleSize(fit.Design.Rows, fit.Design.P) * 4 < fit.Design.Rows;
     }
 
-    /// <summary>Reduced-problem size: about 2·√p·n^(2/3) rows, the order that makes wrong signs rare.</summary>
-    public static int SampleSize(int n, int p) => (int)Math.Min(n, Math.Ceiling(2 * Math.Sqrt(p) * Math.Pow(n, 2.0 / 3.0)));
+    /// <summary>Reduced-problem size: about 2·√p·n^(2/3) rows, the order that makes wrong signs rare. Measured: c = 1 solved 10⁶ rows 2.7× faster than c = 2, but on 6·10⁴ Cauchy-noise rows needed so many corrections that it fell back to the whole LP; c = 0.5 fell back at 10⁶.</summary>
+    public static int SampleSize(int n, int p) => (int)Math.Min(n, Math.Ceiling(SampleFactor * Math.Sqrt(p) * Math.Pow(n, 2.0 / 3.0)));
 
     public Solution Solve(LoweredFit fit, SolveOptions options, CancellationToken cancellation)
     {

@@ -43,22 +43,8 @@ public static class ClassicalErrors
 
     internal static double[]? InternalRowNorms(Design.Design design)
     {
-        var n = design.Rows;
         var p = design.P;
-        var columns = new double[p][];
-        for (var j = 0; j < p; j++)
-        {
-            var col = new double[n];
-            for (var i = 0; i < n; i++)
-            {
-                col[i] = Math.Sqrt(design.Weight(i)) * design.X[j][i];
-            }
-
-            columns[j] = col;
-        }
-
-        var qr = Householder.Factor(columns);
-        if (qr.DeficientColumn(1e-11) >= 0)
+        if (InternalTriangle.Factor(design) is not { } r)
         {
             return null;
         }
@@ -72,10 +58,10 @@ public static class ClassicalErrors
                 var s = k == c ? 1.0 : 0.0;
                 for (var j = k + 1; j <= c; j++)
                 {
-                    s -= qr.R(k, j) * inv[j, c];
+                    s -= r[k, j] * inv[j, c];
                 }
 
-                inv[k, c] = s / qr.R(k, k);
+                inv[k, c] = s / r[k, k];
             }
         }
 

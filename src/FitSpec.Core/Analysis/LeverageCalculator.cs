@@ -1,5 +1,4 @@
 using FitSpec.Results;
-using FitSpec.Solving;
 
 namespace FitSpec.Analysis;
 
@@ -34,26 +33,7 @@ public static class LeverageCalculator
     {
         var n = design.Rows;
         var p = design.P;
-        if (n <= p || p == 0)
-        {
-            return null;
-        }
-
-        var columns = new double[p][];
-        for (var j = 0; j < p; j++)
-        {
-            var col = new double[n];
-            var x = design.X[j];
-            for (var i = 0; i < n; i++)
-            {
-                col[i] = Math.Sqrt(design.Weight(i)) * x[i];
-            }
-
-            columns[j] = col;
-        }
-
-        var qr = Householder.Factor(columns);
-        if (qr.DeficientColumn(1e-11) >= 0)
+        if (n <= p || p == 0 || InternalTriangle.Factor(design) is not { } r)
         {
             return null;
         }
@@ -63,16 +43,17 @@ public static class LeverageCalculator
         for (var i = 0; i < n; i++)
         {
             // Forward substitution R'u = a_i.
+            var sw = Math.Sqrt(design.Weight(i));
             double sum = 0;
             for (var k = 0; k < p; k++)
             {
-                var s = Math.Sqrt(design.Weight(i)) * design.X[k][i];
+                var s = sw * design.X[k][i];
                 for (var j = 0; j < k; j++)
                 {
-                    s -= qr.R(j, k) * u[j];
+                    s -= r[j, k] * u[j];
                 }
 
-                u[k] = s / qr.R(k, k);
+                u[k] = s / r[k, k];
                 sum += u[k] * u[k];
             }
 

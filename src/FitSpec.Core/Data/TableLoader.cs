@@ -1,4 +1,3 @@
-using System.Security.Cryptography;
 using FitSpec.Diagnostics;
 using FitSpec.Expressions;
 using FitSpec.Spec;
@@ -8,21 +7,35 @@ namespace FitSpec.Data;
 /// <summary>What the data stage must read: the columns the model uses (given the header) and the row filter.</summary>
 public sealed record DataRequest(Func<IReadOnlyList<string>, IReadOnlyList<string>> SelectColumns, Expr? Filter);
 
-/// <summary>Stage 2: spec's data section → <see cref="Table"/> of the rows used, with the file's SHA-256.</summary>
+/// <summary>
+/// Stage 2: spec's data section → <see cref="Table"/> of the rows used, with the data's SHA-256 (see
+/// <see cref="DataDigest"/>). The source is a CSV/TSV or Parquet file (by its extension) or an SQLite query.
+/// </summary>
 public static class TableLoader
 {
     /// <summary>Rows a single fit may read (clear error instead of running out of memory).</summary>
     public const int MaxRows = 50_000_000;
 
-    public static Table Load(FitSpecDocument spec, DataRequest request)
+    /// <summary>Seconds an SQLite data query may run (or wait for a locked database) before it is stopped.</summary>
+    public const int QueryTimeoutSeconds = 30;
+
+    public static Table Load(FitSpecDocument spec, DataRequest request) =>
+        Load(spec, request, TimeSpan.FromSeconds(QueryTimeoutSeconds));
+
+    internal static Table Load(FitSpecDocument spec, DataRequest request, TimeSpan queryTimeout)
     {
         ArgumentNullException.ThrowIfNull(spec);
         ArgumentNullException.ThrowIfNull(request);
         var data = spec.Data;
+        if (data.Sqlite is { } database && data.Query is { } query)
+        {
+            return LoadQuery(spec, request, database, query, queryTimeout);
+        }
+
         if (data.Path is not { } pathText)
         {
-            var at = data.Sqlite?.Pos ?? data.Pos;
-            throw new FitSpecException(new Diagnostic(at.File, at.Line, at.Column, "data.sqlite", "data source 'sqlite' is not supported yet; export the query to a .csv file and use 'path:'"));
+            // The spec reader refuses a data section without a source; this guards callers that build one.
+            throw new FitSpecException(new Diagnostic(data.Pos.File, data.Pos.Line, data.Pos.Column, "data.path", "data needs 'path:' or 'sqlite:' with 'query:'"));
         }
 
         var full = Path.GetFullPath(Path.Combine(spec.Folder, pathText.Value));
@@ -32,15 +45,19 @@ public static class TableLoader
         }
 
         var display = pathText.Value;
-        var errorPath = Path.Combine(Path.GetDirectoryName(spec.File) ?? "", pathText.Value);
+        var errorPath = ErrorPath(spec, pathText);
         var sha = HashFile(full);
+        var dropMissing = data.Missing == MissingPolicy.Drop;
+        var parquet = full.EndsWith(".parquet", StringComparison.OrdinalIgnoreCase);
         var separator = full.EndsWith(".tsv", StringComparison.OrdinalIgnoreCase) ? '\t' : ',';
         RawColumns raw;
         try
         {
-            raw = CsvColumnReader.Read(full, errorPath, separator, request.SelectColumns, data.Missing == MissingPolicy.Drop, MaxRows);
+            raw = parquet
+                ? ParquetColumnReader.Read(full, errorPath, request.SelectColumns, dropMissing, MaxRows)
+                : CsvColumnReader.Read(full, errorPath, separator, request.SelectColumns, dropMissing, MaxRows);
         }
-        catch (ArgumentException) when (DuplicateHeaderName(full, separator) is { } duplicate)
+        catch (ArgumentException) when (!parquet && DuplicateHeaderName(full, separator) is { } duplicate)
         {
             throw new FitSpecException(new Diagnostic(errorPath, 1, null, duplicate, "this column name appears more than once in the header; give each column its own name"));
         }
@@ -49,10 +66,46 @@ public static class TableLoader
             throw new FitSpecException(new Diagnostic(errorPath, null, null, null, $"cannot read data file: {e.Message.ReplaceLineEndings(" ")}"));
         }
 
-        return Select(raw, full, display, errorPath, sha, request.Filter, pathText);
+        return Select(raw, full, display, errorPath, sha, request.Filter, pathText, "the data file has no rows");
     }
 
-    private static Table Select(RawColumns raw, string full, string display, string errorPath, string sha, Expr? filter, SpecText pathText)
+    private static Table LoadQuery(FitSpecDocument spec, DataRequest request, SpecText database, SpecText query, TimeSpan timeout)
+    {
+        var full = Path.GetFullPath(Path.Combine(spec.Folder, database.Value));
+        if (!File.Exists(full))
+        {
+            throw new FitSpecException(new Diagnostic(database.Pos.File, database.Pos.Line, database.Pos.Column, "data.sqlite", $"database file '{database.Value}' not found (looked for {full})"));
+        }
+
+        // Committed changes still in the write-ahead log are read by SQLite but are not in the file's bytes,
+        // so the data's SHA-256 would not cover them.
+        var wal = new FileInfo(full + "-wal");
+        if (wal.Exists && wal.Length > 0)
+        {
+            throw new FitSpecException(new Diagnostic(database.Pos.File, database.Pos.Line, database.Pos.Column, "data.sqlite", $"the database has changes in '{wal.Name}' that are not yet in the database file, so its SHA-256 would not cover them; close the programs that use it, or run 'PRAGMA wal_checkpoint(TRUNCATE);' on it"));
+        }
+
+        var errorPath = ErrorPath(spec, database);
+        RawColumns raw;
+        string sha;
+        try
+        {
+            sha = DataDigest.OfQuery(full, query.Value);
+            raw = SqliteQueryReader.Read(new SqliteSource(full, errorPath, database, query), request.SelectColumns, spec.Data.Missing == MissingPolicy.Drop, MaxRows, timeout);
+        }
+        catch (Exception e) when (e is IOException or UnauthorizedAccessException)
+        {
+            throw new FitSpecException(new Diagnostic(database.Pos.File, database.Pos.Line, database.Pos.Column, "data.sqlite", $"cannot read the database file: {e.Message.ReplaceLineEndings(" ")}"));
+        }
+
+        var display = $"{database.Value} (query: {SqlQueryText.OneLine(query.Value)})";
+        return Select(raw, full, display, errorPath, sha, request.Filter, query, "the query returned no rows");
+    }
+
+    // Errors name a data file by its path from the working folder (the spec's folder joined to the path as written).
+    private static string ErrorPath(FitSpecDocument spec, SpecText file) => Path.Combine(Path.GetDirectoryName(spec.File) ?? "", file.Value);
+
+    private static Table Select(RawColumns raw, string full, string display, string errorPath, string sha, Expr? filter, SpecText source, string noRows)
     {
         var n = raw.Lines.Length;
         var keep = new bool[n];
@@ -78,8 +131,8 @@ public static class TableLoader
         var used = keep.Count(k => k);
         if (used == 0)
         {
-            var why = n == 0 ? "the data file has no rows" : $"no rows left: {raw.MissingCount} dropped as missing, {droppedFilter} removed by the filter";
-            throw new FitSpecException(new Diagnostic(pathText.Pos.File, pathText.Pos.Line, pathText.Pos.Column, "data", why));
+            var why = n == 0 ? noRows : $"no rows left: {raw.MissingCount} dropped as missing, {droppedFilter} removed by the filter";
+            throw new FitSpecException(new Diagnostic(source.Pos.File, source.Pos.Line, source.Pos.Column, "data", why));
         }
 
         var columns = new Dictionary<string, double[]>(StringComparer.Ordinal);
@@ -125,9 +178,6 @@ public static class TableLoader
         return null;
     }
 
-    public static string HashFile(string path)
-    {
-        using var stream = new FileStream(path, FileMode.Open, FileAccess.Read, FileShare.Read, 1 << 20);
-        return Convert.ToHexStringLower(SHA256.HashData(stream));
-    }
+    /// <summary>SHA-256 of a data file's bytes (see <see cref="DataDigest.OfFile"/>).</summary>
+    public static string HashFile(string path) => DataDigest.OfFile(path);
 }

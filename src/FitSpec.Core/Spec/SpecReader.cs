@@ -15,6 +15,8 @@ public static partial class SpecReader
     /// <summary>Upper bound on spec size; a fit spec is a few kilobytes.</summary>
     public const int MaxSpecBytes = 1 << 20;
 
+    private const int MaxYamlMessage = 200;
+
     public static SpecReadResult Read(string path)
     {
         ArgumentNullException.ThrowIfNull(path);
@@ -120,7 +122,7 @@ public static partial class SpecReader
             }
         }
 
-        if (errors.Count > 0)
+        if (errors.Count > 0 || !YamlLimits.Check(path, text, errors))
         {
             return null;
         }
@@ -164,7 +166,14 @@ public static partial class SpecReader
                 errors.Add(new Diagnostic(path, (int)n.Start.Line, (int)n.Start.Column, null, $"YAML tags such as '{n.Tag.Value}' are not allowed in a fit spec"));
             }
 
-            foreach (var child in n.AllNodes.Skip(1))
+            // Direct children only: AllNodes walks a whole subtree, and an alias makes subtrees shared.
+            IEnumerable<YamlNode> children = n switch
+            {
+                YamlMappingNode map => map.Children.SelectMany(kv => new[] { kv.Key, kv.Value }),
+                YamlSequenceNode seq => seq.Children,
+                _ => [],
+            };
+            foreach (var child in children)
             {
                 if (child is YamlMappingNode or YamlSequenceNode)
                 {
@@ -183,7 +192,10 @@ public static partial class SpecReader
         var m = e.Message;
         // YamlDotNet prefixes its own position, which our FILE:LINE:COL already carries.
         var idx = m.IndexOf("): ", StringComparison.Ordinal);
-        return idx >= 0 && m.StartsWith('(') ? m[(idx + 3)..] : m;
+        m = idx >= 0 && m.StartsWith('(') ? m[(idx + 3)..] : m;
+
+        // Some messages quote a whole node (a repeated key that is a list quotes the list): keep a line's worth.
+        return m.Length <= MaxYamlMessage ? m : m[..MaxYamlMessage] + "…";
     }
 
     private static FitSpecDocument? ReadTop(YamlFields f, YamlMappingNode top, string path, ref string name)
@@ -267,7 +279,7 @@ public static partial class SpecReader
         var query = Get("query");
         if (path is null && sqlite is null && !e.ContainsKey("path") && !e.ContainsKey("sqlite"))
         {
-            f.Error(map, "data.path", "data needs 'path:' (a .csv or .tsv file) or 'sqlite:' with 'query:'");
+            f.Error(map, "data.path", "data needs 'path:' (a .csv, .tsv or .parquet file) or 'sqlite:' with 'query:'");
         }
 
         if (path is not null && sqlite is not null)
@@ -285,11 +297,16 @@ public static partial class SpecReader
             f.Error(query.Pos, "data.query", "'query:' is only used with 'sqlite:'");
         }
 
+        if (query is not null && !QueryText().IsMatch(query.Value))
+        {
+            f.Error(query.Pos, "data.query", "the query is empty; give one SELECT statement");
+        }
+
         if (path is not null)
         {
             if (!DataFile().IsMatch(path.Value))
             {
-                f.Error(path.Pos, "data.path", $"data file '{path.Value}' must end in .csv (comma) or .tsv (tab)");
+                f.Error(path.Pos, "data.path", $"data file '{path.Value}' must end in .csv (comma), .tsv (tab) or .parquet");
             }
         }
 
@@ -430,4 +447,7 @@ public static partial class SpecReader
 
     [GeneratedRegex(SpecGrammar.DataFilePattern)]
     private static partial Regex DataFile();
+
+    [GeneratedRegex(SpecGrammar.QueryPattern)]
+    private static partial Regex QueryText();
 }

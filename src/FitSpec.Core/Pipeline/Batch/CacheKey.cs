@@ -70,6 +70,13 @@ public static class CacheKey
                 dataSha = FileDigest(full);
                 Add(hash, "data", dataSha);
             }
+            else if (spec.Data.Sqlite is { } database && Data.DataDigest.ForSpec(spec) is { } digest)
+            {
+                // The database's bytes and the query, as the result's provenance records them.
+                Add(hash, "data-path", Path.GetFullPath(Path.Combine(spec.Folder, database.Value)));
+                dataSha = digest;
+                Add(hash, "data", dataSha);
+            }
 
             if (spec.Report.Templates is { } templates)
             {

@@ -21,7 +21,10 @@ public static class SpecGrammar
 {
     public const string FitNamePattern = "^[a-z0-9._-]+$";
     public const string CoefficientNamePattern = "^[A-Za-z_][A-Za-z0-9_]*$";
-    public const string DataFilePattern = "\\.[cCtT][sS][vV]$";
+    public const string DataFilePattern = "\\.([cCtT][sS][vV]|[pP][aA][rR][qQ][uU][eE][tT])$";
+
+    /// <summary>A query holds at least one character that is not white space.</summary>
+    public const string QueryPattern = "\\S";
 
     private static readonly TextShape Text = TextShape.Any;
     private static readonly OneOrListShape Names = new(Text);
@@ -45,11 +48,11 @@ public static class SpecGrammar
 
     public static readonly SectionGrammar Data = new(
         "data",
-        "Where the observations come from: a CSV/TSV file, or an SQLite query.",
+        "Where the observations come from: a CSV/TSV or Parquet file, or an SQLite query.",
         [
-            Key("path", new TextShape(DataFilePattern), "Data file relative to the spec: .csv (comma) or .tsv (tab), with a header row."),
-            Key("sqlite", Text, "SQLite database file relative to the spec; use with 'query'."),
-            Key("query", Text, "SELECT statement run on the 'sqlite' database."),
+            Key("path", new TextShape(DataFilePattern), "Data file relative to the spec: .csv (comma) or .tsv (tab) with a header row, or .parquet (numeric columns)."),
+            Key("sqlite", Text, "SQLite database file relative to the spec, opened read-only; use with 'query'."),
+            Key("query", new TextShape(QueryPattern), "One SELECT statement run on the 'sqlite' database; its result columns are the data's columns."),
             Key("filter", Text, "Row filter expression, e.g. \"load_kg >= 0\"; rows where it is false are left out."),
             Key("weight", Text, "Observation weight: a column or expression, greater than 0 (default 1)."),
             Key("missing", MissingPolicies, "'error' (default): a missing or non-numeric used value is an error; 'drop': such rows are left out and counted."),

@@ -1,5 +1,7 @@
 using System.Globalization;
+using System.Text;
 using FitSpec.Pipeline.Batch;
+using FitSpec.Solving;
 
 namespace FitSpec.Cli;
 
@@ -22,6 +24,7 @@ internal static class FitLines
     {
         FitSource.Cached => "(cached)",
         FitSource.Skipped => "(not run)",
+        FitSource.Cancelled => "(not finished)",
         _ => string.Create(CultureInfo.InvariantCulture, $"({run.Elapsed.TotalSeconds:F2} s)"),
     };
 
@@ -49,7 +52,34 @@ internal static class FitLines
         }
     }
 
-    private static string Count(int n, string noun) => $"{n} {noun}{(n == 1 ? "" : "s")}";
+    /// <summary>A long fit while it solves: "lc7: solving 12.3 s, 45210 HiGHS iterations, objective 42.1, gap 0.52%".</summary>
+    public static string Solving(string name, SolveProgress progress)
+    {
+        ArgumentNullException.ThrowIfNull(progress);
+        var line = new StringBuilder();
+        line.Append(CultureInfo.InvariantCulture, $"{name}: solving {progress.Elapsed.TotalSeconds:F1} s, {Count(progress.Iterations, "HiGHS iteration")}");
+        if (progress.Programs > 1)
+        {
+            line.Append(CultureInfo.InvariantCulture, $", program {progress.Programs}");
+        }
+
+        if (progress.Objective is { } objective)
+        {
+            line.Append(CultureInfo.InvariantCulture, $", objective {objective:G8}");
+        }
+
+        if (progress.MipGap is { } gap)
+        {
+            line.Append(CultureInfo.InvariantCulture, $", gap {100 * gap:0.###}%");
+        }
+
+        return line.ToString();
+    }
+
+    /// <summary>Shown while a cancelled run waits for its fits to stop.</summary>
+    public const string Cancelling = "cancelling: stopping the fits under way; Ctrl-C again quits at once";
+
+    private static string Count(long n, string noun) => $"{n} {noun}{(n == 1 ? "" : "s")}";
 
     /// <summary>"total: 30 fits (28 solved, 2 cached): 27 passed, 1 failed acceptance, 0 no optimum, 2 errors; exit 2".</summary>
     public static string Total(IReadOnlyList<FitRun> runs, int exit)
@@ -57,7 +87,8 @@ internal static class FitLines
         var solved = runs.Count(r => r.Source == FitSource.Solved);
         var cached = runs.Count(r => r.Source == FitSource.Cached);
         var skipped = runs.Count(r => r.Source == FitSource.Skipped);
-        var sources = $"{solved} solved, {cached} cached" + (skipped > 0 ? $", {skipped} not run" : "");
+        var cancelled = runs.Count(r => r.Source == FitSource.Cancelled);
+        var sources = $"{solved} solved, {cached} cached" + (skipped > 0 ? $", {skipped} not run" : "") + (cancelled > 0 ? $", {cancelled} cancelled" : "");
         return $"total: {runs.Count} {(runs.Count == 1 ? "fit" : "fits")} ({sources}): " +
             $"{runs.Count(r => r.ExitCode == 0)} passed, {runs.Count(r => r.ExitCode == 1)} failed acceptance, " +
             $"{runs.Count(r => r.ExitCode == 3)} no optimum, {Count(runs.Count(r => r.ExitCode == 2), "error")}; exit {exit}";

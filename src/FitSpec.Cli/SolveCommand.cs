@@ -65,8 +65,12 @@ internal static class SolveCommand
     private static int Run(BatchRequest request, int exit)
     {
         var interactive = !Console.IsOutputRedirected && AnsiConsole.Profile.Capabilities.Interactive;
-        IBatchProgress progress = interactive ? new BarProgress(AnsiConsole.Console) : new PlainProgress(Console.Out);
-        var runs = progress.Show(request.Specs.Count, finished => BatchRunner.Run(request, finished));
+        IBatchProgress progress = !interactive ? new PlainProgress(Console.Out, Console.Error)
+            : request.Specs.Count == 1 ? new StatusLineProgress(AnsiConsole.Console)
+            : new BarProgress(AnsiConsole.Console);
+        using var cancel = new CancellationTokenSource();
+        using var interruption = new Interruption(cancel, request.OutDir, progress.Cancelling, () => Leave(interactive));
+        var runs = progress.Show(request.Specs.Count, (finished, solving) => BatchRunner.Run(request, finished, cancel.Token, solving));
 
         foreach (var run in runs)
         {
@@ -75,6 +79,12 @@ internal static class SolveCommand
             {
                 Console.Error.WriteLine(line);
             }
+        }
+
+        if (runs.Any(r => r.Source == FitSource.Cancelled))
+        {
+            // The index pages describe a whole run; a cancelled one leaves the last ones as they were.
+            return Summarise(runs, Interruption.ExitCode, interactive);
         }
 
         try
@@ -92,6 +102,11 @@ internal static class SolveCommand
             exit = Math.Max(exit, 2);
         }
 
+        return Summarise(runs, interruption.Cancelled ? Interruption.ExitCode : exit, interactive);
+    }
+
+    private static int Summarise(IReadOnlyList<FitRun> runs, int exit, bool interactive)
+    {
         if (interactive)
         {
             SummaryTable.WriteRich(AnsiConsole.Console, runs);
@@ -103,6 +118,15 @@ internal static class SolveCommand
 
         Console.Out.WriteLine(FitLines.Total(runs, exit));
         return exit;
+    }
+
+    // A second Ctrl-C ends the process from inside a live display: show the cursor it hid.
+    private static void Leave(bool interactive)
+    {
+        if (interactive)
+        {
+            AnsiConsole.Cursor.Show();
+        }
     }
 
     private static List<ReportFormat>? ParseFormats(string? text)

@@ -57,6 +57,7 @@ internal static class SummaryTable
         {
             FitSource.Cached => "cached",
             FitSource.Skipped => "not run",
+            FitSource.Cancelled => "not finished",
             _ => "solved",
         };
         return

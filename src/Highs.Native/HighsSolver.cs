@@ -89,10 +89,14 @@ public sealed class HighsSolver : IDisposable
         _model = model;
     }
 
-    public HighsResult Run()
+    /// <summary>
+    /// Solves the passed model. With a monitor, HiGHS calls back during the run: the monitor may stop it (model
+    /// status Interrupt, with whatever point HiGHS had) and reports the run's progress.
+    /// </summary>
+    public HighsResult Run(HighsRunMonitor? monitor = null)
     {
         var model = _model ?? throw new InvalidOperationException("PassModel first.");
-        var runStatus = NativeMethods.Highs_run(H);
+        var runStatus = monitor is null ? NativeMethods.Highs_run(H) : RunWatched(monitor);
         var modelStatus = (HighsModelStatus)NativeMethods.Highs_getModelStatus(H);
         var colValue = new double[model.NumCol];
         var colDual = new double[model.NumCol];
@@ -117,6 +121,33 @@ public sealed class HighsSolver : IDisposable
             runStatus, modelStatus, NativeMethods.Highs_getObjectiveValue(H),
             colValue, colDual, rowValue, rowDual, NativeMethods.Highs_getRunTime(H),
             simplex, ipm, qp, mipGap, primalStatus == 2, dualStatus == 2);
+    }
+
+    // A handle keeps the monitor reachable for the length of the run only: HiGHS holds the handle's value, and
+    // the callbacks are stopped before the handle is freed.
+    private int RunWatched(HighsRunMonitor monitor)
+    {
+        var handle = GCHandle.Alloc(monitor);
+        try
+        {
+            monitor.BeginRun();
+            Check(NativeMethods.Highs_setCallback(H, HighsRunMonitor.FunctionPointer, GCHandle.ToIntPtr(handle)), "Highs_setCallback");
+            foreach (var type in HighsRunMonitor.Watched)
+            {
+                Check(NativeMethods.Highs_startCallback(H, (int)type), "Highs_startCallback");
+            }
+
+            return NativeMethods.Highs_run(H);
+        }
+        finally
+        {
+            foreach (var type in HighsRunMonitor.Watched)
+            {
+                NativeMethods.Highs_stopCallback(H, (int)type);
+            }
+
+            handle.Free();
+        }
     }
 
     /// <summary>The basis status of every column and row after a simplex run (HiGHS's codes).</summary>

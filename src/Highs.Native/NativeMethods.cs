@@ -108,6 +108,20 @@ internal static partial class NativeMethods
     [LibraryImport(Library)]
     internal static unsafe partial int Highs_setSolution(IntPtr highs, double* colValue, double* rowValue, double* colDual, double* rowDual);
 
+    // user_callback: void (*)(int type, const char* message, const HighsCallbackDataOut*, HighsCallbackDataIn*, void* data).
+    [LibraryImport(Library)]
+    internal static partial int Highs_setCallback(IntPtr highs, IntPtr userCallback, IntPtr userCallbackData);
+
+    [LibraryImport(Library)]
+    internal static partial int Highs_startCallback(IntPtr highs, int callbackType);
+
+    [LibraryImport(Library)]
+    internal static partial int Highs_stopCallback(IntPtr highs, int callbackType);
+
+    /// <summary>The address of a named member of the callback's output struct (null for an unknown name).</summary>
+    [LibraryImport(Library)]
+    internal static unsafe partial IntPtr Highs_getCallbackDataOutItem(HighsCallbackDataOut* dataOut, byte* itemName);
+
     [LibraryImport(Library)]
     internal static unsafe partial int Highs_getRanging(
         IntPtr highs,

@@ -10,20 +10,30 @@ internal sealed record HighsRunResult(SolveStatus Status, double[] X, double[]? 
 /// <summary>
 /// Solves programs with HiGHS — the one program of a fit, or each subproblem of a sequential method — under
 /// one time budget for the whole fit, and counts what it did. One instance per fit solve (not shared).
+/// Every HiGHS run is watched: a cancelled token interrupts it and ends the fit's solve with
+/// OperationCanceledException, and a solve longer than <see cref="SolveProgress.QuietSeconds"/> reports its
+/// progress to the options' sink.
 /// </summary>
 internal sealed class HighsRunner
 {
     private readonly SolveOptions _options;
     private readonly CancellationToken _cancellation;
     private readonly Stopwatch _clock = Stopwatch.StartNew();
+    private readonly IProgress<SolveProgress>? _progress;
+    private readonly HighsRunMonitor _monitor;
 
     public HighsRunner(SolveOptions options, CancellationToken cancellation)
     {
         _options = options;
         _cancellation = cancellation;
+        _progress = options.Progress ?? SolveProgressScope.Current;
+        _monitor = new HighsRunMonitor(cancellation, _progress is null ? null : Report);
     }
 
     public int Solves { get; private set; }
+
+    /// <summary>Where this solve's progress goes (the options' sink, else the enclosing scope's), if anywhere.</summary>
+    public IProgress<SolveProgress>? Progress => _progress;
 
     public long HighsIterations { get; private set; }
 
@@ -37,8 +47,18 @@ internal sealed class HighsRunner
     /// <summary>Whether the last dual LP went to interior point by the auto rule.</summary>
     public bool UsedInteriorPoint { get; private set; }
 
-    /// <summary>True once the fit's time limit is spent.</summary>
-    public bool OutOfTime => _options.TimeLimitSeconds is { } limit && Seconds >= limit;
+    /// <summary>
+    /// True once the fit's time limit is spent. Throws OperationCanceledException once the fit is cancelled, so
+    /// that every loop asking it between steps (some steps need no HiGHS run) stops at once.
+    /// </summary>
+    public bool OutOfTime
+    {
+        get
+        {
+            _cancellation.ThrowIfCancellationRequested();
+            return _options.TimeLimitSeconds is { } limit && Seconds >= limit;
+        }
+    }
 
     /// <param name="program">The subproblem.</param>
     /// <param name="viaDual">
@@ -421,9 +441,25 @@ internal sealed class HighsRunner
         }
 
         highs.PassModel(model);
-        var run = highs.Run();
+        var run = highs.Run(_monitor);
         HighsIterations += run.SimplexIterations + run.IpmIterations + run.QpIterations;
+        // A cancelled fit ends here, whether HiGHS was interrupted or finished just as the request came (QP runs
+        // cannot be interrupted): its answer is not wanted.
+        _cancellation.ThrowIfCancellationRequested();
         return run;
+    }
+
+    // On the HiGHS thread, at most every quarter second while a run is under way.
+    private void Report(HighsProgress run)
+    {
+        if (Seconds < SolveProgress.QuietSeconds)
+        {
+            return;
+        }
+
+        _progress!.Report(new SolveProgress(
+            _clock.Elapsed, HighsIterations + run.Iterations, Solves,
+            double.IsNaN(run.Objective) ? null : run.Objective, double.IsNaN(run.MipGap) ? null : run.MipGap));
     }
 
     /// <summary>HiGHS's model status as a fit status (SPEC's statuses); every backend maps through this.</summary>

@@ -12,7 +12,50 @@ public enum SolveStatus
 }
 
 /// <summary>How the solver was asked to work on one fit.</summary>
-public sealed record SolveOptions(Spec.SolveMethod Method, double? TimeLimitSeconds, Formulation Formulation = Formulation.Auto);
+public sealed record SolveOptions(Spec.SolveMethod Method, double? TimeLimitSeconds, Formulation Formulation = Formulation.Auto)
+{
+    /// <summary>
+    /// Where a long solve reports how it stands (see <see cref="SolveProgress"/>); when null, the sink of the
+    /// enclosing <see cref="SolveProgressScope"/>, if any. Reports come from the solving thread.
+    /// </summary>
+    public IProgress<SolveProgress>? Progress { get; init; }
+}
+
+/// <summary>
+/// How a fit's solve stands, reported while it runs once it has taken longer than
+/// <see cref="SolveProgress.QuietSeconds"/>: the time since its solve began, the HiGHS iterations of all its
+/// runs so far, how many programs it has handed HiGHS, and, when HiGHS reports them, the current objective
+/// (a MILP's best point) and a MILP's relative gap.
+/// </summary>
+public sealed record SolveProgress(TimeSpan Elapsed, long Iterations, int Programs, double? Objective, double? MipGap)
+{
+    /// <summary>A solve shorter than this reports nothing.</summary>
+    public const double QuietSeconds = 2;
+}
+
+/// <summary>
+/// The progress sink for the solves started inside a scope on this logical thread (and the work it starts),
+/// for callers that reach the solver through stages that do not pass one on, such as a batch's fits.
+/// </summary>
+public static class SolveProgressScope
+{
+    private static readonly AsyncLocal<IProgress<SolveProgress>?> Ambient = new();
+
+    public static IProgress<SolveProgress>? Current => Ambient.Value;
+
+    /// <summary>Makes <paramref name="sink"/> current until the returned scope is disposed.</summary>
+    public static IDisposable Enter(IProgress<SolveProgress>? sink)
+    {
+        var previous = Ambient.Value;
+        Ambient.Value = sink;
+        return new Restore(previous);
+    }
+
+    private sealed class Restore(IProgress<SolveProgress>? previous) : IDisposable
+    {
+        public void Dispose() => Ambient.Value = previous;
+    }
+}
 
 /// <summary>Which LP to hand the solver: the program as lowered, its dual (fewer rows for l1-type fits), or the smaller.</summary>
 public enum Formulation

@@ -2,6 +2,7 @@ using System.Diagnostics;
 using FitSpec.Diagnostics;
 using FitSpec.Reporting;
 using FitSpec.Results;
+using FitSpec.Solving;
 using FitSpec.Spec;
 
 namespace FitSpec.Pipeline.Batch;
@@ -9,6 +10,8 @@ namespace FitSpec.Pipeline.Batch;
 /// <summary>
 /// Runs a batch: every spec in parallel (up to Jobs at once), each either taken from the cache or run and
 /// written, one fit's failure never stopping the others. Results come back in the order of the specs.
+/// A cancelled run still returns one result per spec: the fits it stopped or never started are
+/// <see cref="FitSource.Cancelled"/>, with nothing written or cached for them.
 /// </summary>
 public static class BatchRunner
 {
@@ -18,14 +21,19 @@ public static class BatchRunner
     /// <param name="request">What to run.</param>
     /// <param name="finished">Called once per fit as it finishes, one call at a time, with the count done so far.</param>
     /// <param name="cancellation">Stops starting new fits and is passed to the solves under way.</param>
-    public static IReadOnlyList<FitRun> Run(BatchRequest request, Action<FitRun, int>? finished = null, CancellationToken cancellation = default)
+    /// <param name="solving">
+    /// Called with a fit's name and its solve's progress while a long solve runs (from the solving thread;
+    /// several fits may report at once).
+    /// </param>
+    public static IReadOnlyList<FitRun> Run(BatchRequest request, Action<FitRun, int>? finished = null, CancellationToken cancellation = default, Action<string, SolveProgress>? solving = null)
     {
         ArgumentNullException.ThrowIfNull(request);
         var specs = request.Specs;
         var cache = new FitCache(request.OutDir);
         var context = KeyContext.For(request.Formats, request.Settings.Stamp);
         var reads = new SpecReadResult[specs.Count];
-        var parallel = new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, request.Jobs), CancellationToken = cancellation };
+        // No token here: a cancelled batch still goes through every spec, to mark those it did not run.
+        var parallel = new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, request.Jobs) };
         Parallel.For(0, specs.Count, parallel, i => reads[i] = SpecReader.Read(specs[i]));
         var clashes = NameClashes(specs, reads);
 
@@ -37,7 +45,11 @@ public static class BatchRunner
         {
             var clock = Stopwatch.StartNew();
             FitRun run;
-            if (clashes.TryGetValue(i, out var clash))
+            if (cancellation.IsCancellationRequested)
+            {
+                run = CancelledRun(specs[i], reads[i].Name, started: false, clock);
+            }
+            else if (clashes.TryGetValue(i, out var clash))
             {
                 // Its files would overwrite another fit's (or the index pages): report it, write nothing.
                 run = new FitRun(ClashSummary(specs[i], reads[i].Name, clash), FitSource.Skipped, [], [], clock.Elapsed);
@@ -48,7 +60,12 @@ public static class BatchRunner
                 {
                     var key = CacheKey.Compute(specs[i], reads[i], context);
                     keys[i] = key.Value;
+                    using var progress = SolveProgressScope.Enter(solving is null ? null : new FitProgress(reads[i].Name, solving));
                     run = RunOne(specs[i], key, request, cache, clock, cancellation);
+                }
+                catch (OperationCanceledException) when (cancellation.IsCancellationRequested)
+                {
+                    run = CancelledRun(specs[i], reads[i].Name, started: true, clock);
                 }
                 catch (Exception e) when (e is not OperationCanceledException)
                 {
@@ -68,9 +85,10 @@ public static class BatchRunner
 
         try
         {
+            // A cancelled fit's files are as an earlier run left them, so its entries still describe them.
             cache.Prune(
                 keys.Where(k => k is not null).Select(k => k!).ToHashSet(StringComparer.Ordinal),
-                runs.Select(r => r.Summary.Name).ToHashSet(StringComparer.Ordinal));
+                runs.Where(r => r.Source != FitSource.Cancelled).Select(r => r.Summary.Name).ToHashSet(StringComparer.Ordinal));
         }
         catch (Exception e) when (e is IOException or UnauthorizedAccessException)
         {
@@ -88,6 +106,9 @@ public static class BatchRunner
         }
 
         var outcome = FitRunner.RunForOutput(spec, request.Settings, cancellation);
+        // Whatever a fit returns once the run is cancelled may be cut short (a stage that turned the stop into
+        // an error or a limit): it is neither written nor cached.
+        cancellation.ThrowIfCancellationRequested();
         var result = outcome.Result;
         var summary = FitSummary.Of(result);
         IReadOnlyList<string> written;
@@ -147,6 +168,24 @@ public static class BatchRunner
         }
 
         return clashes;
+    }
+
+    private static FitRun CancelledRun(string spec, string name, bool started, Stopwatch clock)
+    {
+        var detail = started
+            ? "stopped while it ran; nothing was written for it"
+            : "not started; nothing was written for it";
+        var summary = new FitSummary(name, null, spec, "cancelled", detail, CancelledExitCode, 0, 0, null, null, null, null, null, []);
+        return new FitRun(summary, FitSource.Cancelled, [], [], clock.Elapsed);
+    }
+
+    /// <summary>The exit code of a cancelled fit (and of a cancelled run): 128 + SIGINT, as shells report it.</summary>
+    public const int CancelledExitCode = 130;
+
+    /// <summary>Passes one fit's solve progress on with the fit's name.</summary>
+    private sealed class FitProgress(string name, Action<string, SolveProgress> solving) : IProgress<SolveProgress>
+    {
+        public void Report(SolveProgress value) => solving(name, value);
     }
 
     private static FitSummary ClashSummary(string spec, string name, string message) =>

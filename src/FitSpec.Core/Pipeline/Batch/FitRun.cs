@@ -11,6 +11,9 @@ public enum FitSource
 
     /// <summary>Not run at all (e.g. its name clashes with another fit of the run).</summary>
     Skipped,
+
+    /// <summary>Stopped, or never started, because the run was cancelled: nothing written, nothing cached.</summary>
+    Cancelled,
 }
 
 /// <summary>

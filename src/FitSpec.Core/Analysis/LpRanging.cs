@@ -16,7 +16,7 @@ public static class LpRanging
     public const int MaxVariables = 50_000;
     private const int RowsShownPerConstraint = 5;
 
-    public static RangingInfo? Compute(LoweredFit fit, double objective)
+    public static RangingInfo? Compute(LoweredFit fit, double objective, CancellationToken cancellation = default)
     {
         ArgumentNullException.ThrowIfNull(fit);
         if (fit.Class != ProblemClass.LP || fit.Strategy is not null)
@@ -35,7 +35,8 @@ public static class LpRanging
         highs.SetOption("threads", 1);
         highs.SetOption("solver", "simplex");
         highs.PassModel(HighsModels.From(program));
-        var run = highs.Run();
+        var run = highs.Run(new HighsRunMonitor(cancellation));
+        cancellation.ThrowIfCancellationRequested();
         if (run.ModelStatus != HighsModelStatus.Optimal)
         {
             return new RangingInfo([], [], $"ranging unavailable: the simplex re-solve ended {run.ModelStatus}");

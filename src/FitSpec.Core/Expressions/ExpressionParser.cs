@@ -5,6 +5,13 @@ namespace FitSpec.Expressions;
 /// <summary>Parses the expression language into an immutable tree; never throws.</summary>
 public static class ExpressionParser
 {
+    /// <summary>
+    /// Errors reported for one expression. Past a few, more are echoes of the same mistake, and every caller
+    /// turns each into a message quoting the expression: a long garbled text would otherwise cost its length
+    /// times its error count.
+    /// </summary>
+    public const int MaxErrors = 10;
+
     public static ParsedExpression Parse(string text, ExpressionContext context)
     {
         text ??= "";
@@ -18,6 +25,12 @@ public static class ExpressionParser
 
         // A stable sort keeps lexer-then-parser order for errors at the same offset.
         var ordered = errors.OrderBy(e => e.Offset).ToArray();
+        if (ordered.Length > MaxErrors)
+        {
+            var rest = ordered[MaxErrors - 1];
+            ordered = [.. ordered[..(MaxErrors - 1)], rest with { Message = $"{rest.Message} (and {ordered.Length - MaxErrors} more errors after this one)" }];
+        }
+
         return new ParsedExpression(text, ordered.Length == 0 ? root : null, ordered);
     }
 }

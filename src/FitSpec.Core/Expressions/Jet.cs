@@ -70,13 +70,19 @@ public readonly record struct Jet(double Value, double D1, double D2)
     /// <summary>At 0 the right-hand branch (+x) is used.</summary>
     public static Jet Abs(Jet x) => x.Value >= 0 ? new(Math.Abs(x.Value), x.D1, x.D2) : -x;
 
-    /// <summary>Ties take the first argument's derivatives; NaN propagates as in <see cref="Math.Min(double, double)"/>.</summary>
+    /// <summary>
+    /// Ties take the first argument's derivatives; the value is always <see cref="Math.Min(double, double)"/>'s,
+    /// so NaN propagates and a tie of 0 and -0 gives -0 (which decides the sign of a later division by it).
+    /// </summary>
     public static Jet Min(Jet a, Jet b) =>
-        double.IsNaN(a.Value) ? a : double.IsNaN(b.Value) ? b : a.Value <= b.Value ? a : b;
+        double.IsNaN(a.Value) ? a : double.IsNaN(b.Value) ? b : a.Value < b.Value ? a : b.Value < a.Value ? b : a with { Value = Math.Min(a.Value, b.Value) };
 
-    /// <summary>Ties take the first argument's derivatives; NaN propagates as in <see cref="Math.Max(double, double)"/>.</summary>
+    /// <summary>
+    /// Ties take the first argument's derivatives; the value is always <see cref="Math.Max(double, double)"/>'s,
+    /// so NaN propagates and a tie of 0 and -0 gives 0.
+    /// </summary>
     public static Jet Max(Jet a, Jet b) =>
-        double.IsNaN(a.Value) ? a : double.IsNaN(b.Value) ? b : a.Value >= b.Value ? a : b;
+        double.IsNaN(a.Value) ? a : double.IsNaN(b.Value) ? b : a.Value > b.Value ? a : b.Value > a.Value ? b : a with { Value = Math.Max(a.Value, b.Value) };
 
     /// <summary>x^n for a constant n: the power rule, with exact zeros where n or n-1 is zero.</summary>
     public static Jet Pow(Jet x, double n)

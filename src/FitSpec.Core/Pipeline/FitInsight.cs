@@ -20,7 +20,7 @@ internal static class FitInsight
         var isL2 = spec.Loss.Kind == LossKind.L2;
         var unconstrainedL2 = isL2 && fit.ClosedForm is { RidgeRows.Count: 0 } && fit.Constraints.Count == 0;
         var classical = unconstrainedL2 && check.Metrics.ResidualSd is { } sd ? ClassicalErrors.Compute(design, check.Beta, sd) : null;
-        var ranging = LpRanging.Compute(fit, check.Objective);
+        var ranging = LpRanging.Compute(fit, check.Objective, cancellation);
         var bootstrap = spec.Report.Uncertainty is { } request ? Bootstrap.Run(fit, check.Beta, request, options, cancellation) : null;
         return result with
         {

@@ -7,6 +7,12 @@ namespace FitSpec.Spec;
 /// <summary>Reads model.terms: coefficient name → constant, column, expression or basis expander.</summary>
 internal static partial class TermReader
 {
+    /// <summary>
+    /// Most knots one spline may have. The grammar sets no upper bound, but each knot is a basis column: two
+    /// billion of them ran the design stage out of memory. Ten thousand is far past any calibration curve.
+    /// </summary>
+    internal const int MaxKnots = 10_000;
+
     // An expander is named by its first key; a term with several is read as the first listed.
     private static readonly string[] ExpanderKinds = [.. SpecGrammar.TermExpanders.Select(s => s.Names[0])];
 
@@ -149,6 +155,11 @@ internal static partial class TermReader
                         {
                             f.Error(kn.Value, $"{field}.knots", $"a spline needs at least {fewest} knots (both boundary knots count), got {knots}");
                         }
+                        else if (knots > MaxKnots)
+                        {
+                            f.Error(kn.Value, $"{field}.knots", $"a spline may have at most {MaxKnots} knots, got {knots}");
+                            knots = null;
+                        }
 
                         if (knots is { } kk && at is not null && at.Count != kk)
                         {
@@ -167,6 +178,12 @@ internal static partial class TermReader
                     if (at is not null && !knotCounts.Contains(at.Count))
                     {
                         f.Error(map, $"{field}.at", $"a spline needs at least {fewest} knots in 'at:'");
+                        return null;
+                    }
+
+                    if (at is not null && at.Count > MaxKnots)
+                    {
+                        f.Error(atNode.Value, $"{field}.at", $"a spline may have at most {MaxKnots} knots, got {at.Count} in 'at:'");
                         return null;
                     }
 

@@ -34,7 +34,7 @@ internal sealed class SupportSolver : IFitSolver
     private static Solution SolveMilp(LoweredFit fit, CountStrategy strategy, SolveOptions options, CancellationToken cancellation)
     {
         var clock = Stopwatch.StartNew();
-        var run = RunMilp(fit.Program, options);
+        var run = RunMilp(fit.Program, options, cancellation);
         var status = HighsRunner.StatusOf(run.ModelStatus);
         var solver = $"HiGHS {HighsSolver.Version}";
         if (!run.HasPrimal || status is not (SolveStatus.Optimal or SolveStatus.TimeLimit))
@@ -199,7 +199,7 @@ internal sealed class SupportSolver : IFitSolver
     private static string SupportNames(LoweredFit fit, IReadOnlySet<int> support) =>
         support.Count == 0 ? "{} (none)" : "{" + string.Join(", ", support.Order().Select(j => fit.Design.Coefficients[j].Name)) + "}";
 
-    private static HighsResult RunMilp(FitProgram program, SolveOptions options)
+    private static HighsResult RunMilp(FitProgram program, SolveOptions options, CancellationToken cancellation)
     {
         using var highs = new HighsSolver();
         highs.SetOption("output_flag", false);
@@ -217,6 +217,7 @@ internal sealed class SupportSolver : IFitSolver
         highs.SetOption("mip_rel_gap", 1e-9);
         highs.SetOption("mip_abs_gap", 1e-12);
         highs.PassModel(HighsModels.From(program));
-        return highs.Run();
+        // Branch and cut can run long: Ctrl-C stops it through HiGHS's callback.
+        return highs.Run(new HighsRunMonitor(cancellation));
     }
 }

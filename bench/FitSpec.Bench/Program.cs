@@ -4,11 +4,17 @@ using System.Text;
 using FitSpec.Pipeline;
 
 // Benchmarks that print figures. Usage: dotnet run -c Release --project bench/FitSpec.Bench -- formulation [maxRows]
+// or: ... -- stages OUTDIR SPEC|FOLDER... (time and memory per pipeline stage; see StageTimes.cs)
 var what = args.Length > 0 ? args[0] : "formulation";
+if (what == "stages")
+{
+    return FitSpec.Bench.StageTimes.Run(args[1..]);
+}
+
 var maxRows = args.Length > 1 ? int.Parse(args[1], CultureInfo.InvariantCulture) : 100_000;
 if (what != "formulation")
 {
-    Console.Error.WriteLine("usage: FitSpec.Bench formulation [maxRows]");
+    Console.Error.WriteLine("usage: FitSpec.Bench formulation [maxRows] | stages OUTDIR SPEC|FOLDER...");
     return 2;
 }
 

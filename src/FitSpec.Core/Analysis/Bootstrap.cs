@@ -51,13 +51,13 @@ public static class Bootstrap
     /// <summary>Row indices of replicate b: n draws with replacement from a generator of its own.</summary>
     public static int[] Draw(int n, int seed, int replicate)
     {
-        var state = Mix(((ulong)(uint)seed << 32) ^ (uint)replicate ^ 0x5DEECE66DUL);
+        var state = SplitMix.Mix(((ulong)(uint)seed << 32) ^ (uint)replicate ^ 0x5DEECE66DUL);
         var rows = new int[n];
         for (var i = 0; i < n; i++)
         {
             state += 0x9E3779B97F4A7C15UL;
             // Multiply-shift maps a 64-bit draw onto 0..n-1 with negligible bias for any realistic n.
-            rows[i] = (int)Math.BigMul(Mix(state), (ulong)n, out _);
+            rows[i] = (int)Math.BigMul(SplitMix.Mix(state), (ulong)n, out _);
         }
 
         return rows;
@@ -97,12 +97,5 @@ public static class Bootstrap
         var mean = v.Average();
         var ss = v.Sum(x => (x - mean) * (x - mean));
         return Math.Sqrt(ss / (v.Length - 1));
-    }
-
-    private static ulong Mix(ulong z)
-    {
-        z = (z ^ (z >> 30)) * 0xBF58476D1CE4E5B9UL;
-        z = (z ^ (z >> 27)) * 0x94D049BB133111EBUL;
-        return z ^ (z >> 31);
     }
 }

@@ -27,19 +27,23 @@ public static class FitRunner
     public static FitOutcome RunForOutput(string specPath, CancellationToken cancellation = default) =>
         RunForOutput(specPath, RunSettings.Default, cancellation);
 
-    public static FitOutcome RunForOutput(string specPath, RunSettings settings, CancellationToken cancellation = default)
+    public static FitOutcome RunForOutput(string specPath, RunSettings settings, CancellationToken cancellation = default) =>
+        RunForOutput(specPath, SpecReader.Read(specPath), settings, cancellation);
+
+    /// <summary>Runs a spec already read (a batch reads each spec once, for its cache key and for the run).</summary>
+    public static FitOutcome RunForOutput(string specPath, SpecReadResult read, RunSettings settings, CancellationToken cancellation = default)
     {
         ArgumentNullException.ThrowIfNull(specPath);
+        ArgumentNullException.ThrowIfNull(read);
         FitResult result;
         FitSpecDocument? spec = null;
         try
         {
-            result = Run(specPath, settings, out spec, cancellation);
+            result = Run(specPath, read, settings, out spec, cancellation);
         }
         catch (Exception e) when (e is not OperationCanceledException)
         {
             // A bug must not take down a batch or print a stack trace: the fit gets an error result that says so.
-            var read = SpecReader.Read(specPath);
             var sha = Convert.ToHexStringLower(SHA256.HashData(read.Bytes));
             result = Failed(read.Name, specPath, read.Document, MakeProvenance(sha, null, settings), null, [new Diagnostic(specPath, null, null, null, $"internal error ({e.GetType().Name}: {e.Message}); this is a bug in FitSpec, please report it with the spec and data")]);
         }
@@ -48,13 +52,13 @@ public static class FitRunner
         return new FitOutcome(result, spec?.Report.Formats ?? AllFormats, templates);
     }
 
-    public static FitResult Run(string specPath, CancellationToken cancellation = default) => Run(specPath, RunSettings.Default, out _, cancellation);
+    public static FitResult Run(string specPath, CancellationToken cancellation = default) =>
+        Run(specPath, SpecReader.Read(specPath), RunSettings.Default, out _, cancellation);
 
-    private static FitResult Run(string specPath, RunSettings settings, out FitSpecDocument? document, CancellationToken cancellation)
+    private static FitResult Run(string specPath, SpecReadResult read, RunSettings settings, out FitSpecDocument? document, CancellationToken cancellation)
     {
         ArgumentNullException.ThrowIfNull(specPath);
         document = null;
-        var read = SpecReader.Read(specPath);
         var specSha = Convert.ToHexStringLower(SHA256.HashData(read.Bytes));
         if (read.Document is not { } spec)
         {

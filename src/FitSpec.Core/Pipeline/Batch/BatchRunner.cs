@@ -61,7 +61,7 @@ public static class BatchRunner
                     var key = CacheKey.Compute(specs[i], reads[i], context);
                     keys[i] = key.Value;
                     using var progress = SolveProgressScope.Enter(solving is null ? null : new FitProgress(reads[i].Name, solving));
-                    run = RunOne(specs[i], key, request, cache, clock, cancellation);
+                    run = RunOne(specs[i], reads[i], key, request, cache, clock, cancellation);
                 }
                 catch (OperationCanceledException) when (cancellation.IsCancellationRequested)
                 {
@@ -98,14 +98,14 @@ public static class BatchRunner
         return runs;
     }
 
-    private static FitRun RunOne(string spec, FitKey key, BatchRequest request, FitCache cache, Stopwatch clock, CancellationToken cancellation)
+    private static FitRun RunOne(string spec, SpecReadResult read, FitKey key, BatchRequest request, FitCache cache, Stopwatch clock, CancellationToken cancellation)
     {
         if (!request.Force && cache.Find(key.Value) is { } hit)
         {
             return new FitRun(hit.Summary, FitSource.Cached, hit.Outputs.Select(o => o.Path).ToList(), [], clock.Elapsed);
         }
 
-        var outcome = FitRunner.RunForOutput(spec, request.Settings, cancellation);
+        var outcome = FitRunner.RunForOutput(spec, read, request.Settings, cancellation);
         // Whatever a fit returns once the run is cancelled may be cut short (a stage that turned the stop into
         // an error or a limit): it is neither written nor cached.
         cancellation.ThrowIfCancellationRequested();

@@ -228,7 +228,7 @@ internal sealed class SignScreeningSolver : IFitSolver
         var rows = new List<int>(m + (m / 10));
         for (var i = 0; i < n; i++)
         {
-            if (Mix((ulong)i + 0x2545F4914F6CDD1DUL) < threshold)
+            if (SplitMix.Mix((ulong)i + 0x2545F4914F6CDD1DUL) < threshold)
             {
                 rows.Add(i);
             }
@@ -237,12 +237,6 @@ internal sealed class SignScreeningSolver : IFitSolver
         return rows;
     }
 
-    private static ulong Mix(ulong z)
-    {
-        z = (z ^ (z >> 30)) * 0xBF58476D1CE4E5B9UL;
-        z = (z ^ (z >> 27)) * 0x94D049BB133111EBUL;
-        return z ^ (z >> 31);
-    }
 
     /// <summary>The full program's primal and dual from the reduced solve and the fixed signs.</summary>
     private static (double[] X, double[] RowDual, double[] ColDual) Assemble(

@@ -219,6 +219,31 @@ public sealed class HighsSolver : IDisposable
             rbdV[..rows], rbdO[..rows], rbuV[..rows], rbuO[..rows]);
     }
 
+    /// <summary>
+    /// An irreducible infeasible subsystem of the passed LP: the columns whose bounds and the rows that together
+    /// admit no point, every one of them needed. Null when HiGHS finds none (the model is feasible, or HiGHS
+    /// cannot tell).
+    /// </summary>
+    public unsafe HighsIis? GetIis()
+    {
+        var model = _model ?? throw new InvalidOperationException("PassModel first.");
+        int nc = Math.Max(1, model.NumCol), nr = Math.Max(1, model.NumRow);
+        int[] colIndex = new int[nc], rowIndex = new int[nr], colBound = new int[nc], rowBound = new int[nr];
+        int numCol = 0, numRow = 0, status;
+        fixed (int* ci = colIndex, ri = rowIndex, cb = colBound, rb = rowBound)
+        {
+            status = NativeMethods.Highs_getIis(H, &numCol, &numRow, ci, ri, cb, rb, null, null);
+        }
+
+        // Warning: HiGHS could not confirm the subsystem infeasible; error: none was computed.
+        if (status != 0 || numCol < 0 || numRow < 0 || numCol > model.NumCol || numRow > model.NumRow || numCol + numRow == 0)
+        {
+            return null;
+        }
+
+        return new HighsIis(colIndex[..numCol], rowIndex[..numRow]);
+    }
+
     /// <summary>Writes the passed model with HiGHS's own writer; the extension picks the format (.mps, .lp).</summary>
     public void WriteModel(string path) => Check(NativeMethods.Highs_writeModel(H, path), "Highs_writeModel");
 
@@ -271,3 +296,6 @@ public sealed record HighsRanging(
     double[] RowBoundDnObjective,
     double[] RowBoundUp,
     double[] RowBoundUpObjective);
+
+/// <summary>An irreducible infeasible subsystem: indices of the columns (by their bounds) and rows in it.</summary>
+public sealed record HighsIis(int[] Columns, int[] Rows);

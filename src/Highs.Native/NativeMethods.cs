@@ -123,6 +123,11 @@ internal static partial class NativeMethods
     internal static unsafe partial IntPtr Highs_getCallbackDataOutItem(HighsCallbackDataOut* dataOut, byte* itemName);
 
     [LibraryImport(Library)]
+    internal static unsafe partial int Highs_getIis(
+        IntPtr highs, int* iisNumCol, int* iisNumRow, int* colIndex, int* rowIndex,
+        int* colBound, int* rowBound, int* colStatus, int* rowStatus);
+
+    [LibraryImport(Library)]
     internal static unsafe partial int Highs_getRanging(
         IntPtr highs,
         double* colCostUpValue, double* colCostUpObjective, int* colCostUpInVar, int* colCostUpOutVar,

@@ -2,6 +2,7 @@ using System.Globalization;
 using System.Reflection;
 using System.Runtime.InteropServices;
 using System.Security.Cryptography;
+using FitSpec.Analysis.Conflicts;
 using FitSpec.Data;
 using FitSpec.Design;
 using FitSpec.Diagnostics;
@@ -35,6 +36,8 @@ public static class FitRunner
     {
         ArgumentNullException.ThrowIfNull(specPath);
         ArgumentNullException.ThrowIfNull(read);
+        ArgumentNullException.ThrowIfNull(settings);
+        read = PathConfinement.Apply(read, settings.AllowOutsidePaths);
         FitResult result;
         FitSpecDocument? spec = null;
         try
@@ -53,7 +56,7 @@ public static class FitRunner
     }
 
     public static FitResult Run(string specPath, CancellationToken cancellation = default) =>
-        Run(specPath, SpecReader.Read(specPath), RunSettings.Default, out _, cancellation);
+        Run(specPath, PathConfinement.Apply(SpecReader.Read(specPath), allowOutside: false), RunSettings.Default, out _, cancellation);
 
     private static FitResult Run(string specPath, SpecReadResult read, RunSettings settings, out FitSpecDocument? document, CancellationToken cancellation)
     {
@@ -123,15 +126,12 @@ public static class FitRunner
 
         if (solution.X is null)
         {
-            var status = StatusName(solution.Status);
-            var detail = solution.StatusDetail ?? solution.Status switch
+            var diagnosis = NoSolutionDiagnosis.Of(lowered, solution, cancellation);
+            return new FitResult(spec.Name, StatusName(diagnosis.Status), diagnosis.Detail, spec.File, spec.Title, spec.Description, statement, problem, null, [], data, null, [], [], null, [], [.. lowered.Notes, .. solution.Notes], provenance, [])
             {
-                SolveStatus.Infeasible => "the constraints contradict each other (or the data): no coefficients satisfy them all",
-                SolveStatus.Unbounded => "the objective can decrease without limit: some coefficient is not determined by the data or constraints",
-                SolveStatus.TimeLimit => "the time limit was reached before a solution was found",
-                _ => solution.Message,
+                Conflict = diagnosis.Conflict,
+                FreeDirection = diagnosis.Direction,
             };
-            return new FitResult(spec.Name, status, detail, spec.File, spec.Title, spec.Description, statement, problem, null, [], data, null, [], [], null, [], [.. lowered.Notes, .. solution.Notes], provenance, []);
         }
 
         var check = Verifier.Check(lowered, solution);

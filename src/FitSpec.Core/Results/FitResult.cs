@@ -57,6 +57,12 @@ public sealed record FitResult(
     /// <summary>Classical standard errors and bootstrap intervals, where computed.</summary>
     public UncertaintyInfo? Uncertainty { get; init; }
 
+    /// <summary>For an infeasible fit: the smallest set of the user's constraints that cannot hold together.</summary>
+    public ConflictInfo? Conflict { get; init; }
+
+    /// <summary>For an unbounded fit: the coefficients along which the objective falls without limit.</summary>
+    public FreeDirection? FreeDirection { get; init; }
+
     /// <summary>SPEC exit-code semantics for this fit alone.</summary>
     public int ExitCode => Status switch
     {
@@ -118,5 +124,14 @@ public sealed record Provenance(
     /// <summary>UTC time of the run; only with --stamp, so that files are otherwise byte-identical.</summary>
     public string? Stamp { get; init; }
 }
+
+/// <summary>
+/// Constraints (by label, in spec order) that cannot all hold; Irreducible when dropping any one of them was
+/// checked to leave the rest satisfiable. Note says what else is involved or why the search stopped.
+/// </summary>
+public sealed record ConflictInfo(IReadOnlyList<string> Labels, bool Irreducible, string? Note);
+
+/// <summary>A direction (per coefficient, largest component 1) along which the objective decreases for ever.</summary>
+public sealed record FreeDirection(IReadOnlyList<CoefficientValue> Components);
 
 public sealed record ErrorEntry(string File, int? Line, int? Column, string? Field, string Message);

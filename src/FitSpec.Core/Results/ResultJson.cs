@@ -85,6 +85,7 @@ public static class ResultJson
             }
 
             w.WriteEndArray();
+            WriteNoSolution(w, r);
             w.WriteStartArray("acceptance");
             foreach (var a in r.Acceptance)
             {
@@ -322,6 +323,30 @@ public static class ResultJson
         }
 
         w.WriteEndObject();
+    }
+
+    // Only for fits without a solution: the conflicting constraints, or the direction of unlimited decrease.
+    private static void WriteNoSolution(Utf8JsonWriter w, FitResult r)
+    {
+        if (r.Conflict is { } c)
+        {
+            w.WriteStartObject("conflict");
+            Strings(w, "constraints", c.Labels);
+            w.WriteBoolean("irreducible", c.Irreducible);
+            Str(w, "note", c.Note);
+            w.WriteEndObject();
+        }
+
+        if (r.FreeDirection is { } d)
+        {
+            w.WriteStartObject("free_direction");
+            foreach (var component in d.Components)
+            {
+                Num(w, component.Name, component.Value);
+            }
+
+            w.WriteEndObject();
+        }
     }
 
     private static void WriteConstraint(Utf8JsonWriter w, ConstraintCheck c)

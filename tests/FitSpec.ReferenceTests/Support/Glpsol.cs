@@ -12,8 +12,12 @@ public static partial class Glpsol
 
     public static string MissingReason => "glpsol not found on PATH (install the Debian package glpk-utils)";
 
-    /// <summary>Solves a free-MPS file; returns glpsol's status line and the objective from its plain solution file.</summary>
-    public static GlpsolSolution SolveFreeMps(string mpsPath)
+    /// <summary>
+    /// Solves a free-MPS file; returns glpsol's status line and the objective from its plain solution file.
+    /// Without presolve an infeasible LP ends in a final simplex status (INFEASIBLE, primal status 'n') rather
+    /// than the presolver's UNDEFINED.
+    /// </summary>
+    public static GlpsolSolution SolveFreeMps(string mpsPath, bool presolve = true)
     {
         var dir = Path.GetDirectoryName(mpsPath)!;
         var printable = Path.ChangeExtension(mpsPath, ".glpsol.txt");
@@ -21,7 +25,7 @@ public static partial class Glpsol
         var run = ExternalProcess.Run(
             Executable ?? throw new InvalidOperationException(MissingReason),
             dir,
-            ["--freemps", mpsPath, "-o", printable, "-w", plain]);
+            presolve ? ["--freemps", mpsPath, "-o", printable, "-w", plain] : ["--freemps", mpsPath, "--nopresol", "-o", printable, "-w", plain]);
         if (run.ExitCode != 0)
         {
             throw new InvalidOperationException($"glpsol failed on {mpsPath}: {run}");

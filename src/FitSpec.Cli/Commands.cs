@@ -36,7 +36,8 @@ internal static class Commands
     private static Command Check()
     {
         var specs = new Argument<string[]>("specs") { Arity = ArgumentArity.OneOrMore, Description = "Spec files (*.fit.yaml), folders, or quoted patterns such as 'specs/**/*.fit.yaml'" };
-        var command = new Command("check", "Validate specs, read their data and lower them; print the problem class and size without solving") { specs };
+        var outside = SolveCommand.OutsidePathsOption();
+        var command = new Command("check", "Validate specs, read their data and lower them; print the problem class and size without solving") { specs, outside };
         command.SetAction(parse =>
         {
             var files = SpecDiscovery.Find(parse.GetValue(specs)!, out var missing);
@@ -48,7 +49,7 @@ internal static class Commands
 
             foreach (var file in files)
             {
-                exit = Math.Max(exit, CheckOne(file));
+                exit = Math.Max(exit, CheckOne(file, parse.GetValue(outside)));
             }
 
             return exit;
@@ -60,11 +61,12 @@ internal static class Commands
     {
         var spec = new Argument<string>("spec") { Description = "One spec file" };
         var mps = new Option<string>("--mps") { Description = "Write the lowered program to this file in free MPS (HiGHS's writer)", Required = true };
-        var command = new Command("lower", "Lower one spec and export the exact program it solves as MPS") { spec, mps };
+        var outside = SolveCommand.OutsidePathsOption();
+        var command = new Command("lower", "Lower one spec and export the exact program it solves as MPS") { spec, mps, outside };
         command.SetAction(parse =>
         {
             var path = parse.GetValue(spec)!;
-            if (!TryLower(path, forceProgram: true, out var lowered))
+            if (!TryLower(path, forceProgram: true, parse.GetValue(outside), out var lowered))
             {
                 return 2;
             }
@@ -98,9 +100,9 @@ internal static class Commands
         return command;
     }
 
-    private static int CheckOne(string file)
+    private static int CheckOne(string file, bool allowOutside)
     {
-        if (!TryLower(file, forceProgram: false, out var lowered))
+        if (!TryLower(file, forceProgram: false, allowOutside, out var lowered))
         {
             return 2;
         }
@@ -113,10 +115,10 @@ internal static class Commands
         return 0;
     }
 
-    private static bool TryLower(string file, bool forceProgram, out LoweredFit? lowered)
+    private static bool TryLower(string file, bool forceProgram, bool allowOutside, out LoweredFit? lowered)
     {
         lowered = null;
-        var read = SpecReader.Read(file);
+        var read = PathConfinement.Apply(SpecReader.Read(file), allowOutside);
         if (read.Document is null)
         {
             PrintErrors(read.Errors);

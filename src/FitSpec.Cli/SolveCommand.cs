@@ -21,6 +21,7 @@ internal static class SolveCommand
         var jobs = new Option<int>("--jobs") { Description = "Fits to run in parallel (default: number of cores)", DefaultValueFactory = _ => Environment.ProcessorCount };
         var force = new Option<bool>("--force") { Description = "Solve every fit again, even those the cache holds as unchanged" };
         var stamp = new Option<bool>("--stamp") { Description = "Record wall-clock facts (time of the run, solve seconds) in the outputs; files then differ run to run" };
+        var outside = OutsidePathsOption();
         jobs.Validators.Add(result =>
         {
             if (result.GetValueOrDefault<int>() < 1)
@@ -29,7 +30,7 @@ internal static class SolveCommand
             }
         });
 
-        var command = new Command("solve", "Solve fit specs and write verified results, reports and the run's index pages") { specs, outDir, formats, jobs, force, stamp };
+        var command = new Command("solve", "Solve fit specs and write verified results, reports and the run's index pages") { specs, outDir, formats, jobs, force, stamp, outside };
         command.SetAction(parse =>
         {
             var formatList = ParseFormats(parse.GetValue(formats));
@@ -50,12 +51,18 @@ internal static class SolveCommand
                 return 2;
             }
 
-            var settings = new RunSettings(RecordedCommandLine.Of(parse.Tokens.Select(t => t.Value).ToList()), parse.GetValue(stamp));
+            var settings = new RunSettings(RecordedCommandLine.Of(parse.Tokens.Select(t => t.Value).ToList()), parse.GetValue(stamp), parse.GetValue(outside));
             var request = new BatchRequest(files, parse.GetValue(outDir)!, formatList, parse.GetValue(jobs), parse.GetValue(force), settings);
             return Run(request, missing.Count > 0 ? 2 : 0);
         });
         return command;
     }
+
+    /// <summary>The option that lets specs name files outside their own folder tree (for specs the user trusts).</summary>
+    public static Option<bool> OutsidePathsOption() => new(PathConfinement.Option)
+    {
+        Description = "Let specs read data and templates outside their own folder tree (refused by default, so a spec cannot reach files it was not given)",
+    };
 
     /// <summary>The error line for an argument that names nothing (or a pattern that matches no spec).</summary>
     public static string MissingMessage(string argument) => PathGlob.IsPattern(argument)

@@ -44,8 +44,9 @@ public static class DataDigest
         }
 
         var full = Path.GetFullPath(Path.Combine(spec.Folder, file.Value));
-        if (!File.Exists(full))
+        if (!File.Exists(full) || new FileInfo(full).Length > TableLoader.MaxFileBytes)
         {
+            // Missing or past the size limit: the fit is refused without reading it.
             return null;
         }
 

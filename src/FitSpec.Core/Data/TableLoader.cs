@@ -16,6 +16,9 @@ public static class TableLoader
     /// <summary>Rows a single fit may read (clear error instead of running out of memory).</summary>
     public const int MaxRows = 50_000_000;
 
+    /// <summary>Size of a data file (or database) one fit may read: 16 GiB, beyond what a fit's rows limit can use.</summary>
+    public const long MaxFileBytes = 16L << 30;
+
     /// <summary>Seconds an SQLite data query may run (or wait for a locked database) before it is stopped.</summary>
     public const int QueryTimeoutSeconds = 30;
 
@@ -44,6 +47,7 @@ public static class TableLoader
             throw new FitSpecException(new Diagnostic(pathText.Pos.File, pathText.Pos.Line, pathText.Pos.Column, "data.path", $"data file '{pathText.Value}' not found (looked for {full})"));
         }
 
+        CheckSize(full, pathText, "data.path");
         var display = pathText.Value;
         var errorPath = ErrorPath(spec, pathText);
         var sha = HashFile(full);
@@ -77,6 +81,8 @@ public static class TableLoader
             throw new FitSpecException(new Diagnostic(database.Pos.File, database.Pos.Line, database.Pos.Column, "data.sqlite", $"database file '{database.Value}' not found (looked for {full})"));
         }
 
+        CheckSize(full, database, "data.sqlite");
+
         // Committed changes still in the write-ahead log are read by SQLite but are not in the file's bytes,
         // so the data's SHA-256 would not cover them.
         var wal = new FileInfo(full + "-wal");
@@ -100,6 +106,16 @@ public static class TableLoader
 
         var display = $"{database.Value} (query: {SqlQueryText.OneLine(query.Value)})";
         return Select(raw, full, display, errorPath, sha, request.Filter, query, "the query returned no rows");
+    }
+
+    private static void CheckSize(string full, SpecText source, string field)
+    {
+        var length = new FileInfo(full).Length;
+        if (length > MaxFileBytes)
+        {
+            throw new FitSpecException(new Diagnostic(source.Pos.File, source.Pos.Line, source.Pos.Column, field,
+                $"'{source.Value}' is {length / (double)(1L << 30):F1} GiB, more than the {MaxFileBytes >> 30} GiB one fit may read; split the data or select rows before fitting"));
+        }
     }
 
     // Errors name a data file by its path from the working folder (the spec's folder joined to the path as written).

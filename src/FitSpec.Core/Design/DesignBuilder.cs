@@ -24,9 +24,9 @@ public static class DesignBuilder
             w = ExpressionEvaluator.Evaluate(wRoot, Column, n);
             for (var i = 0; i < n; i++)
             {
-                if (!(w[i] > 0) || !double.IsFinite(w[i]))
+                if (!(w[i] > 0) || !double.IsFinite(w[i]) || w[i] > MagnitudeLimit)
                 {
-                    errors.Add(new Diagnostic(table.ErrorPath, table.Lines[i], null, spec.Data.Weight!.Value, $"weight must be a finite number > 0, got {w[i]}"));
+                    errors.Add(new Diagnostic(table.ErrorPath, table.Lines[i], null, spec.Data.Weight!.Value, $"weight must be a finite number > 0 and at most {MagnitudeLimit:G1}, got {w[i]}"));
                     if (errors.Count > 20)
                     {
                         break;
@@ -83,6 +83,7 @@ public static class DesignBuilder
                             inputs.AddRange(term.Expression.Columns);
                         }
 
+                        Reserve(1, et.Expression.Pos, et.Key);
                         Add(et.Key, et.Key, isConstant, col, col);
                         basis.Add(input => [ExpressionEvaluator.EvaluateJet(root, input)]);
                         break;
@@ -93,6 +94,7 @@ public static class DesignBuilder
                         var root = term.Expression!.Root!;
                         inputs.AddRange(term.Expression.Columns);
                         var u = Finite(ExpressionEvaluator.Evaluate(root, Column, n), table, pt.Key, pt.Input.Value, errors);
+                        Reserve(pt.Degree, pt.Input.Pos, pt.Key);
                         AddPolynomial(pt, u, hasConstant);
                         var degree = pt.Degree;
                         basis.Add(input =>
@@ -120,6 +122,7 @@ public static class DesignBuilder
                             errors.Add(new Diagnostic(at.File, at.Line, at.Column, $"model.terms.{ct.Key}", $"no data column matches '{ct.Glob.Value}'; columns are: {string.Join(", ", table.Header)}"));
                         }
 
+                        Reserve(matched.Count, ct.Glob.Pos, ct.Key);
                         foreach (var name in matched)
                         {
                             var col = Finite(table.Columns[name], table, name, name, errors);
@@ -144,6 +147,7 @@ public static class DesignBuilder
                             break;
                         }
 
+                        Reserve(spline.Count, st.Input.Pos, st.Key);
                         var columns = SplineColumns.Columns(spline, u);
                         for (var j = 0; j < columns.Length; j++)
                         {
@@ -192,6 +196,22 @@ public static class DesignBuilder
             layout);
         return design;
 
+        // Checked before a term's columns are made: past a limit the fit stops here with the term named.
+        void Reserve(int count, SourcePos at, string key)
+        {
+            var total = (long)coefficients.Count + count;
+            var message = total > DesignLimits.MaxCoefficients
+                ? $"the model would have {total:N0} coefficients with this term, more than the {DesignLimits.MaxCoefficients:N0} one fit may have; select fewer columns or knots"
+                : total * n > DesignLimits.MaxCells
+                    ? $"the design would hold {total * n:N0} values ({n:N0} rows × {total:N0} coefficients) with this term, more than the {DesignLimits.MaxCells:N0} one fit may hold in memory; use fewer rows (a filter) or fewer coefficients"
+                    : null;
+            if (message is not null)
+            {
+                errors.Add(new Diagnostic(at.File, at.Line, at.Column, $"model.terms.{key}", message));
+                throw new FitSpecException(errors);
+            }
+        }
+
         void Add(string name, string key, bool isConstant, double[] internalCol, double[] rawCol)
         {
             rawMap.Add([new Entry(coefficients.Count, 1.0)]);
@@ -234,6 +254,15 @@ public static class DesignBuilder
                     var zi = (u[i] - c) / s;
                     z[i] = IntPow(zi, k);
                     (raw[i], low[i]) = ExactPower(u[i], k);
+                }
+
+                // The input is in range, but its power (the reported raw basis) may not be.
+                for (var i = 0; i < n; i++)
+                {
+                    if (OutOfRange(raw[i], table, i, pt.Key, $"'{pt.Input.Value}' to the power {k}", errors))
+                    {
+                        break;
+                    }
                 }
 
                 coefficients.Add(new Coefficient($"{pt.Key}{k}", pt.Key, false));
@@ -303,17 +332,41 @@ public static class DesignBuilder
         return r;
     }
 
+    /// <summary>
+    /// The largest magnitude a model value may have: squares and sums of squares over millions of rows must
+    /// stay finite in double precision (1e100² · 1e6 rows ≈ 1e206), or the solver sees infinities.
+    /// </summary>
+    public const double MagnitudeLimit = 1e100;
+
     private static double[] Finite(double[] values, Table table, string field, string text, List<Diagnostic> errors)
     {
         for (var i = 0; i < values.Length; i++)
         {
-            if (!double.IsFinite(values[i]))
+            if (OutOfRange(values[i], table, i, field, $"'{text}'", errors))
             {
-                errors.Add(new Diagnostic(table.ErrorPath, table.Lines[i], null, field, $"'{text}' is not a finite number on this row ({values[i]})"));
                 break;
             }
         }
 
         return values;
+    }
+
+    // One located error for a value that is not finite or too large to square; true when it was added.
+    private static bool OutOfRange(double value, Table table, int row, string field, string what, List<Diagnostic> errors)
+    {
+        if (!double.IsFinite(value))
+        {
+            errors.Add(new Diagnostic(table.ErrorPath, table.Lines[row], null, field, $"{what} is not a finite number on this row ({value})"));
+            return true;
+        }
+
+        if (Math.Abs(value) > MagnitudeLimit)
+        {
+            errors.Add(new Diagnostic(table.ErrorPath, table.Lines[row], null, field,
+                $"{what} is {value:G6} on this row, beyond ±{MagnitudeLimit:G1}, where squares and sums of squares overflow; rescale it (other units, or divide it in the expression)"));
+            return true;
+        }
+
+        return false;
     }
 }

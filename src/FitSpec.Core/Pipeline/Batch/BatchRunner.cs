@@ -34,7 +34,8 @@ public static class BatchRunner
         var reads = new SpecReadResult[specs.Count];
         // No token here: a cancelled batch still goes through every spec, to mark those it did not run.
         var parallel = new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, request.Jobs) };
-        Parallel.For(0, specs.Count, parallel, i => reads[i] = SpecReader.Read(specs[i]));
+        // Confined before the cache key is computed: a spec that may not read a file never has it hashed either.
+        Parallel.For(0, specs.Count, parallel, i => reads[i] = PathConfinement.Apply(SpecReader.Read(specs[i]), request.Settings.AllowOutsidePaths));
         var clashes = NameClashes(specs, reads);
 
         var runs = new FitRun[specs.Count];

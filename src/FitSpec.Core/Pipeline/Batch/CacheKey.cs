@@ -67,7 +67,8 @@ public static class CacheKey
             {
                 var full = Path.GetFullPath(Path.Combine(spec.Folder, data.Value));
                 Add(hash, "data-path", full);
-                dataSha = FileDigest(full);
+                // A file past the fit's size limit is refused unread, so it is not read for its key either.
+                dataSha = TooLarge(full) is { } length ? $"too-large:{length}" : FileDigest(full);
                 Add(hash, "data", dataSha);
             }
             else if (spec.Data.Sqlite is { } database && Data.DataDigest.ForSpec(spec) is { } digest)
@@ -87,6 +88,19 @@ public static class CacheKey
         }
 
         return new FitKey(Convert.ToHexStringLower(hash.GetHashAndReset()), Convert.ToHexStringLower(SHA256.HashData(read.Bytes)), dataSha);
+    }
+
+    private static long? TooLarge(string path)
+    {
+        try
+        {
+            var info = new FileInfo(path);
+            return info.Exists && info.Length > Data.TableLoader.MaxFileBytes ? info.Length : null;
+        }
+        catch (Exception e) when (e is IOException or UnauthorizedAccessException)
+        {
+            return null;
+        }
     }
 
     /// <summary>SHA-256 of a file's bytes (lower-case hex), or a marker when it cannot be read.</summary>

@@ -19,6 +19,8 @@ internal static class Commands
         root.Subcommands.Add(Lower());
         root.Subcommands.Add(DiffCommand.Build());
         root.Subcommands.Add(SchemaCommand.Build());
+        root.Subcommands.Add(MergeCommand.Build());
+        root.Subcommands.Add(ClusterCommand.Build());
         return root;
     }
 
@@ -79,12 +81,18 @@ internal static class Commands
 
             var target = parse.GetValue(mps)!;
             var dir = Path.GetDirectoryName(Path.GetFullPath(target))!;
-            Directory.CreateDirectory(dir);
             var temp = Path.Combine(dir, $".{Path.GetFileName(target)}.{Environment.ProcessId}.tmp.mps");
             try
             {
+                Directory.CreateDirectory(dir);
                 ProgramExport.Write(lowered!.Program, temp);
                 File.Move(temp, target, overwrite: true);
+            }
+            catch (Exception e) when (e is IOException or UnauthorizedAccessException)
+            {
+                // A file standing where a folder must be, a read-only place, a full disk: one line, not a trace.
+                Console.Error.WriteLine($"{target}: error: cannot write the MPS file: {e.Message}; choose a --mps path in a writable folder");
+                return 2;
             }
             finally
             {

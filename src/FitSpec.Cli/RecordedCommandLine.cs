@@ -4,11 +4,11 @@ namespace FitSpec.Cli;
 
 /// <summary>
 /// The command line a result records: `fitspec` and the arguments as given, less the options that only
-/// schedule the work (--jobs N, --force), so that they never make two runs' files differ.
+/// schedule the work (--jobs N, --shard I/N, --force), so that they never make two runs' files differ.
 /// </summary>
 internal static class RecordedCommandLine
 {
-    private static readonly string[] WithValue = ["--jobs"];
+    private static readonly string[] WithValue = ["--jobs", "--shard"];
     private static readonly string[] Flags = ["--force"];
 
     public static string Of(IReadOnlyList<string> args)

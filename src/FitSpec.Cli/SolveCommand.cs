@@ -22,6 +22,7 @@ internal static class SolveCommand
         var force = new Option<bool>("--force") { Description = "Solve every fit again, even those the cache holds as unchanged" };
         var stamp = new Option<bool>("--stamp") { Description = "Record wall-clock facts (time of the run, solve seconds) in the outputs; files then differ run to run" };
         var outside = OutsidePathsOption();
+        var shard = new Option<string?>("--shard") { Description = "Solve only shard I of N of the batch (I/N, 0-based; 'auto' or 'auto/N' takes it from a Slurm array task or a Kubernetes Indexed Job); 'fitspec merge OUT' then writes the index pages" };
         jobs.Validators.Add(result =>
         {
             if (result.GetValueOrDefault<int>() < 1)
@@ -30,7 +31,7 @@ internal static class SolveCommand
             }
         });
 
-        var command = new Command("solve", "Solve fit specs and write verified results, reports and the run's index pages") { specs, outDir, formats, jobs, force, stamp, outside };
+        var command = new Command("solve", "Solve fit specs and write verified results, reports and the run's index pages") { specs, outDir, formats, jobs, force, stamp, outside, shard };
         command.SetAction(parse =>
         {
             var formatList = ParseFormats(parse.GetValue(formats));
@@ -52,8 +53,22 @@ internal static class SolveCommand
             }
 
             var settings = new RunSettings(RecordedCommandLine.Of(parse.Tokens.Select(t => t.Value).ToList()), parse.GetValue(stamp), parse.GetValue(outside));
+            ShardPlan? plan = null;
+            if (parse.GetValue(shard) is { } shardText)
+            {
+                var part = Shard.Parse(shardText, Environment.GetEnvironmentVariable, out var error);
+                if (part is null)
+                {
+                    Console.Error.WriteLine($"fitspec: error: {error}");
+                    return 2;
+                }
+
+                plan = ShardPlan.Of(part, files, settings.AllowOutsidePaths);
+                files = plan.Own;
+            }
+
             var request = new BatchRequest(files, parse.GetValue(outDir)!, formatList, parse.GetValue(jobs), parse.GetValue(force), settings);
-            return Run(request, missing.Count > 0 ? 2 : 0);
+            return Run(request, missing.Count > 0 ? 2 : 0, plan);
         });
         return command;
     }
@@ -69,7 +84,7 @@ internal static class SolveCommand
         ? $"{argument}: error: no spec file (*.fit.yaml) or folder matches this pattern"
         : $"{argument}: error: no such spec file or folder";
 
-    private static int Run(BatchRequest request, int exit)
+    private static int Run(BatchRequest request, int exit, ShardPlan? plan)
     {
         var interactive = !Console.IsOutputRedirected && AnsiConsole.Profile.Capabilities.Interactive;
         IBatchProgress progress = !interactive ? new PlainProgress(Console.Out, Console.Error)
@@ -77,7 +92,16 @@ internal static class SolveCommand
             : new BarProgress(AnsiConsole.Console);
         using var cancel = new CancellationTokenSource();
         using var interruption = new Interruption(cancel, request.OutDir, progress.Cancelling, () => Leave(interactive));
-        var runs = progress.Show(request.Specs.Count, (finished, solving) => BatchRunner.Run(request, finished, cancel.Token, solving));
+        IReadOnlyList<FitRun> runs;
+        try
+        {
+            runs = progress.Show(request.Specs.Count, (finished, solving) => BatchRunner.Run(request, finished, cancel.Token, solving));
+        }
+        catch (OutFolderException e)
+        {
+            Console.Error.WriteLine(e.Message);
+            return 2;
+        }
 
         foreach (var run in runs)
         {
@@ -96,11 +120,19 @@ internal static class SolveCommand
 
         try
         {
-            IndexPages.Write(request.OutDir, runs, request.Settings);
+            // A shard's fits are one part of the batch: it leaves its record, and the merge writes the pages.
+            if (plan is not null)
+            {
+                ShardRecord.Of(plan.Shard, request.Settings, plan.Batch, runs).Write(request.OutDir);
+            }
+            else
+            {
+                IndexPages.Write(request.OutDir, runs, request.Settings);
+            }
         }
         catch (Exception e) when (e is IOException or UnauthorizedAccessException)
         {
-            Console.Error.WriteLine($"{request.OutDir}: error: cannot write the index pages: {e.Message}");
+            Console.Error.WriteLine($"{request.OutDir}: error: cannot write the {(plan is null ? "index pages" : "shard record")}: {e.Message}");
             exit = Math.Max(exit, 2);
         }
         catch (ReportTemplateException e)

@@ -1,3 +1,4 @@
+using FitSpec.Pipeline.Batch;
 using FitSpec.Reporting;
 using FitSpec.Reporting.Plots;
 using FitSpec.Results;
@@ -6,8 +7,8 @@ using FitSpec.Spec;
 namespace FitSpec.Pipeline;
 
 /// <summary>
-/// Stage 7's file side: writes a result's formats into the out folder, each file atomically. A Markdown report
-/// gets its plots as &lt;name&gt;.&lt;plot&gt;.svg files beside it; HTML carries them inline.
+/// Stage 7's file side: writes a result's formats into the out folder, all of a fit's files atomically as one
+/// (all written or none). A Markdown report gets its plots as &lt;name&gt;.&lt;plot&gt;.svg files beside it; HTML carries them inline.
 /// </summary>
 public static class OutputWriter
 {
@@ -16,7 +17,7 @@ public static class OutputWriter
     {
         ArgumentNullException.ThrowIfNull(result);
         ArgumentNullException.ThrowIfNull(formats);
-        Directory.CreateDirectory(outDir);
+        CreateFolder(outDir);
         var wanted = formats.Distinct().ToList();
         var withMarkdown = wanted.Contains(ReportFormat.Md);
 
@@ -40,10 +41,8 @@ public static class OutputWriter
             rendered.AddRange(plots.Select(p => (Path.Combine(outDir, ReportPlot.FileName(result.Name, p.Key)), p.FileSvg)));
         }
 
-        foreach (var (path, text) in rendered)
-        {
-            AtomicFile.Write(path, text);
-        }
+        // All or none: a fit that runs out of room part way must not leave a report linking plots that are not there.
+        AtomicFile.WriteAll(rendered);
 
         if (withMarkdown)
         {
@@ -51,6 +50,18 @@ public static class OutputWriter
         }
 
         return rendered.Select(r => r.Path).ToList();
+    }
+
+    private static void CreateFolder(string outDir)
+    {
+        try
+        {
+            Directory.CreateDirectory(outDir);
+        }
+        catch (Exception e) when (e is IOException or UnauthorizedAccessException)
+        {
+            throw WriteFailure.For(outDir, e);
+        }
     }
 
     // A plot an earlier run drew that this result no longer has (say, the Q–Q plot after a switch from l2)

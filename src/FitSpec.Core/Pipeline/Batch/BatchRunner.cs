@@ -28,6 +28,9 @@ public static class BatchRunner
     public static IReadOnlyList<FitRun> Run(BatchRequest request, Action<FitRun, int>? finished = null, CancellationToken cancellation = default, Action<string, SolveProgress>? solving = null)
     {
         ArgumentNullException.ThrowIfNull(request);
+        // An out folder that cannot be written ends the run before any fit is solved for nothing.
+        OutFolderProbe.Check(request.OutDir);
+        StaleTemps.Sweep(request.OutDir);
         var specs = request.Specs;
         var cache = new FitCache(request.OutDir);
         var context = KeyContext.For(request.Formats, request.Settings.Stamp);
@@ -86,10 +89,11 @@ public static class BatchRunner
 
         try
         {
-            // A cancelled fit's files are as an earlier run left them, so its entries still describe them.
+            // A cancelled fit's files, and those of a fit that could not write its new ones, are as an earlier
+            // run left them, so its entries still describe them.
             cache.Prune(
                 keys.Where(k => k is not null).Select(k => k!).ToHashSet(StringComparer.Ordinal),
-                runs.Where(r => r.Source != FitSource.Cancelled).Select(r => r.Summary.Name).ToHashSet(StringComparer.Ordinal));
+                runs.Where(r => r.Source != FitSource.Cancelled && r.Problems.Count == 0).Select(r => r.Summary.Name).ToHashSet(StringComparer.Ordinal));
         }
         catch (Exception e) when (e is IOException or UnauthorizedAccessException)
         {
@@ -119,7 +123,7 @@ public static class BatchRunner
         }
         catch (Exception e) when (e is IOException or UnauthorizedAccessException)
         {
-            return new FitRun(summary, FitSource.Solved, [], [$"{request.OutDir}: error: cannot write the results of '{result.Name}': {e.Message}"], clock.Elapsed);
+            return new FitRun(summary, FitSource.Solved, [], [$"{request.OutDir}: error: cannot write the results of '{result.Name}': {WriteFailure.Message(e)}"], clock.Elapsed);
         }
         catch (ReportTemplateException e)
         {

@@ -73,6 +73,13 @@ internal static class ClusterCommand
             var job = Job(parse, o);
             var outDir = Path.GetFullPath(job.OutDir);
             var logs = Path.Combine(outDir, ShardRecord.FolderName);
+            if (new[] { outDir, Environment.CurrentDirectory }.FirstOrDefault(p => p.Any(char.IsWhiteSpace)) is { } spaced)
+            {
+                // #SBATCH lines end a value at the first blank, so such a path cannot be given to Slurm there.
+                Console.Error.WriteLine($"{spaced}: error: Slurm job scripts cannot hold a folder path with spaces (#SBATCH --chdir/--output); use an out folder and a working folder without spaces");
+                return 2;
+            }
+
             var shardsPath = Path.Combine(outDir, SlurmScripts.ShardsFile);
             var mergePath = Path.Combine(outDir, SlurmScripts.MergeFile);
             if (!TryWrite([
@@ -114,6 +121,13 @@ internal static class ClusterCommand
         var image = new Option<string>("--image") { Description = "Container image with fitspec on its PATH", Required = true };
         var claim = new Option<string>("--claim") { Description = "PersistentVolumeClaim of the shared storage", DefaultValueFactory = _ => "fitspec-shared" };
         var mount = new Option<string>("--mount") { Description = "Where the shared storage is mounted in the container (the jobs start there)", DefaultValueFactory = _ => "/shared" };
+        image.Validators.Add(r =>
+        {
+            if (string.IsNullOrWhiteSpace(r.GetValueOrDefault<string>()))
+            {
+                r.AddError("--image must name a container image");
+            }
+        });
         command.Options.Add(image);
         command.Options.Add(claim);
         command.Options.Add(mount);
@@ -130,7 +144,7 @@ internal static class ClusterCommand
             }
 
             Console.Out.WriteLine($"wrote {shardsPath} ({job.Tasks} indexed completions) and {mergePath}");
-            Console.Out.WriteLine($"run with: kubectl apply -f {shardsPath}; kubectl wait --for=condition=complete --timeout=24h job/{job.Name}-shards; kubectl apply -f {mergePath}");
+            Console.Out.WriteLine($"run with: kubectl apply -f {shardsPath}; kubectl wait --for=condition=complete --timeout=2h job/{job.Name}-shards; kubectl apply -f {mergePath}  (if a shard fails for good the wait times out: apply the merge anyway, it names the missing shards)");
             return 0;
         });
         return command;

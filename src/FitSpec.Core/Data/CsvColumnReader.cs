@@ -21,9 +21,20 @@ internal static class CsvColumnReader
 {
     public static RawColumns Read(string path, string displayPath, char separator, Func<IReadOnlyList<string>, IReadOnlyList<string>> selectColumns, bool dropMissing, int maxRows)
     {
+        // Without a header there is nothing to name: say so, rather than that every column is missing.
+        if (new FileInfo(path).Length == 0)
+        {
+            throw new FitSpecException(new Diagnostic(displayPath, null, null, null, "the data file is empty (0 bytes); it needs a header line naming its columns, then one line per row"));
+        }
+
         using var reader = Sep.Reader(o => o with { Sep = new Sep(separator), Unescape = true, DisableColCountCheck = true })
             .FromFile(path);
         var header = reader.Header.ColNames.ToArray();
+        if (header.Length <= 1 && header.All(string.IsNullOrWhiteSpace))
+        {
+            throw new FitSpecException(new Diagnostic(displayPath, 1, null, null, "the data file is empty: its first line, the header naming the columns, is blank"));
+        }
+
         var names = selectColumns(header).Distinct(StringComparer.Ordinal).ToArray();
         var indices = new int[names.Length];
         for (var k = 0; k < names.Length; k++)
@@ -136,7 +147,7 @@ internal static class CsvColumnReader
             return "missing value (empty cell); fill it in or set 'data.missing: drop'";
         }
 
-        if (double.TryParse(text, NumberStyles.Float, CultureInfo.InvariantCulture, out var v) && !double.IsFinite(v))
+        if ((double.TryParse(text, NumberStyles.Float, CultureInfo.InvariantCulture, out var v) && !double.IsFinite(v)) || IsInfinityWord(text))
         {
             return $"value '{text}' is not a finite number; fix it or set 'data.missing: drop'";
         }
@@ -148,4 +159,8 @@ internal static class CsvColumnReader
 
         return $"non-numeric value '{text}'; fix it or set 'data.missing: drop'";
     }
+
+    // The short spellings of infinity that exporters write ("inf", "-inf", "+Inf"), which the parser does not know.
+    private static bool IsInfinityWord(string text) =>
+        text.TrimStart('+', '-').Equals("inf", StringComparison.OrdinalIgnoreCase);
 }

@@ -70,7 +70,7 @@ public static class TableLoader
             throw new FitSpecException(new Diagnostic(errorPath, null, null, null, $"cannot read data file: {e.Message.ReplaceLineEndings(" ")}"));
         }
 
-        return Select(raw, full, display, errorPath, sha, request.Filter, pathText, "the data file has no rows");
+        return Select(raw, full, display, errorPath, sha, request.Filter, data.Filter, pathText, "the data file has no rows");
     }
 
     private static Table LoadQuery(FitSpecDocument spec, DataRequest request, SpecText database, SpecText query, TimeSpan timeout)
@@ -105,7 +105,7 @@ public static class TableLoader
         }
 
         var display = $"{database.Value} (query: {SqlQueryText.OneLine(query.Value)})";
-        return Select(raw, full, display, errorPath, sha, request.Filter, query, "the query returned no rows");
+        return Select(raw, full, display, errorPath, sha, request.Filter, spec.Data.Filter, query, "the query returned no rows");
     }
 
     private static void CheckSize(string full, SpecText source, string field)
@@ -121,7 +121,7 @@ public static class TableLoader
     // Errors name a data file by its path from the working folder (the spec's folder joined to the path as written).
     private static string ErrorPath(FitSpecDocument spec, SpecText file) => Path.Combine(Path.GetDirectoryName(spec.File) ?? "", file.Value);
 
-    private static Table Select(RawColumns raw, string full, string display, string errorPath, string sha, Expr? filter, SpecText source, string noRows)
+    private static Table Select(RawColumns raw, string full, string display, string errorPath, string sha, Expr? filter, SpecText? filterText, SpecText source, string noRows)
     {
         var n = raw.Lines.Length;
         var keep = new bool[n];
@@ -147,8 +147,7 @@ public static class TableLoader
         var used = keep.Count(k => k);
         if (used == 0)
         {
-            var why = n == 0 ? noRows : $"no rows left: {raw.MissingCount} dropped as missing, {droppedFilter} removed by the filter";
-            throw new FitSpecException(new Diagnostic(source.Pos.File, source.Pos.Line, source.Pos.Column, "data", why));
+            throw new FitSpecException(NoRowsLeft(n, raw.MissingCount, droppedFilter, source, filterText, noRows));
         }
 
         var columns = new Dictionary<string, double[]>(StringComparer.Ordinal);
@@ -159,6 +158,20 @@ public static class TableLoader
 
         var lines = used == n ? raw.Lines : Compact(raw.Lines, keep, used);
         return new Table(full, display, errorPath, sha, raw.Header, columns, lines, n, raw.MissingCount, droppedFilter);
+    }
+
+    // When the filter removed the last rows it is the filter that must change, so the error points at it.
+    private static Diagnostic NoRowsLeft(int read, int missing, int filtered, SpecText source, SpecText? filterText, string noRows)
+    {
+        if (read == 0)
+        {
+            return new Diagnostic(source.Pos.File, source.Pos.Line, source.Pos.Column, "data", noRows);
+        }
+
+        var why = $"no rows left: {missing} dropped as missing, {filtered} removed by the filter";
+        return filtered > 0 && filterText is { } f
+            ? new Diagnostic(f.Pos.File, f.Pos.Line, f.Pos.Column, "data.filter", $"{why} '{f.Value}'; loosen the filter or check the data it is meant to select")
+            : new Diagnostic(source.Pos.File, source.Pos.Line, source.Pos.Column, "data", $"{why}; fill in the missing values or check the data source");
     }
 
     private static T[] Compact<T>(T[] values, bool[] keep, int count)

@@ -24,9 +24,9 @@ public static class DesignBuilder
             w = ExpressionEvaluator.Evaluate(wRoot, Column, n);
             for (var i = 0; i < n; i++)
             {
-                if (!(w[i] > 0) || !double.IsFinite(w[i]) || w[i] > MagnitudeLimit)
+                if (!(w[i] > 0) || !double.IsFinite(w[i]) || w[i] > WeightLimit)
                 {
-                    errors.Add(new Diagnostic(table.ErrorPath, table.Lines[i], null, spec.Data.Weight!.Value, $"weight must be a finite number > 0 and at most {MagnitudeLimit:G1}, got {w[i]}"));
+                    errors.Add(new Diagnostic(table.ErrorPath, table.Lines[i], null, spec.Data.Weight!.Value, $"weight must be a finite number > 0 and at most {WeightLimit:G1}, got {w[i]}"));
                     if (errors.Count > 20)
                     {
                         break;
@@ -62,10 +62,10 @@ public static class DesignBuilder
                         if (isConstant)
                         {
                             var value = ExpressionEvaluator.EvaluateScalar(root, _ => double.NaN);
-                            if (!double.IsFinite(value) || value == 0)
+                            if (!double.IsFinite(value) || value == 0 || Math.Abs(value) > MagnitudeLimit)
                             {
                                 var at = et.Expression.Pos;
-                                errors.Add(new Diagnostic(at.File, at.Line, at.Column, $"model.terms.{et.Key}", $"constant term '{et.Expression.Value}' must be a finite non-zero number"));
+                                errors.Add(new Diagnostic(at.File, at.Line, at.Column, $"model.terms.{et.Key}", $"constant term '{et.Expression.Value}' must be a non-zero number within ±{MagnitudeLimit:G1}"));
                                 value = 1;
                             }
 
@@ -166,11 +166,18 @@ public static class DesignBuilder
             layout.Add(new TermLayout(term.Spec.Key, firstIndex, coefficients.Count - firstIndex, termInputs, spline, spline is null ? null : term.Expression!.Root));
         }
 
-        var names = coefficients.GroupBy(c => c.Name, StringComparer.Ordinal).Where(g => g.Count() > 1).Select(g => g.Key).ToList();
-        foreach (var dup in names)
+        foreach (var dup in coefficients.GroupBy(c => c.Name, StringComparer.Ordinal).Where(g => g.Count() > 1))
         {
-            var at = spec.Model.Pos;
-            errors.Add(new Diagnostic(at.File, at.Line, at.Column, "model.terms", $"coefficient name '{dup}' is produced by more than one term; rename a term"));
+            // Pointed at the term written with that very name (the one a reader renames), else the later term.
+            var keys = dup.Select(c => c.TermKey).Distinct(StringComparer.Ordinal).ToList();
+            var term = spec.Model.Terms.FirstOrDefault(t => t.Key == dup.Key) ?? spec.Model.Terms.Last(t => t.Key == keys[^1]);
+            var others = string.Join(" and ", keys.Where(k => k != term.Key).Select(k =>
+                $"'{k}' (which gives {string.Join(", ", coefficients.Where(c => c.TermKey == k).Select(c => c.Name).Take(4))}{(coefficients.Count(c => c.TermKey == k) > 4 ? ", …" : "")})"));
+            var at = term.Pos;
+            errors.Add(new Diagnostic(at.File, at.Line, at.Column, $"model.terms.{term.Key}",
+                others.Length == 0
+                    ? $"coefficient name '{dup.Key}' is given more than once by this term; rename it"
+                    : $"coefficient name '{dup.Key}' is given by this term and also by term {others}; rename one of them"));
         }
 
         if (errors.Count > 0)
@@ -256,10 +263,10 @@ public static class DesignBuilder
                     (raw[i], low[i]) = ExactPower(u[i], k);
                 }
 
-                // The input is in range, but its power (the reported raw basis) may not be.
+                // The solver sees z^k, within ±1; the raw power is only reported and converted, so it need only square.
                 for (var i = 0; i < n; i++)
                 {
-                    if (OutOfRange(raw[i], table, i, pt.Key, $"'{pt.Input.Value}' to the power {k}", errors))
+                    if (OutOfRange(raw[i], table, i, pt.Key, $"'{pt.Input.Value}' to the power {k}", errors, PowerLimit))
                     {
                         break;
                     }
@@ -333,10 +340,22 @@ public static class DesignBuilder
     }
 
     /// <summary>
-    /// The largest magnitude a model value may have: squares and sums of squares over millions of rows must
-    /// stay finite in double precision (1e100² · 1e6 rows ≈ 1e206), or the solver sees infinities.
+    /// The largest magnitude a response or basis value (a polynomial's input included) may have. The LP and QP
+    /// solver treats bounds from 1e20 as infinite and refuses matrix entries from 1e15, and verified optima were
+    /// measured up to 1e10 for every loss (l2 closed form and with a constraint, l1, linf; beyond it linf and
+    /// constrained l1 fail verification, and at 1e15 the solver refuses the model). Reference data with values to
+    /// about 1e7 stay inside (their polynomial powers, to 1e13, are fitted scaled; see <see cref="PowerLimit"/>).
     /// </summary>
-    public const double MagnitudeLimit = 1e100;
+    public const double MagnitudeLimit = 1e10;
+
+    /// <summary>
+    /// The largest weight and raw polynomial power: neither reaches the solver as written (weights scale rows,
+    /// powers are fitted as scaled z^k), so they need only square and sum finitely (1e100² · 1e6 rows ≈ 1e206).
+    /// </summary>
+    public const double WeightLimit = 1e100;
+
+    /// <summary>See <see cref="WeightLimit"/>.</summary>
+    public const double PowerLimit = 1e100;
 
     private static double[] Finite(double[] values, Table table, string field, string text, List<Diagnostic> errors)
     {
@@ -351,8 +370,8 @@ public static class DesignBuilder
         return values;
     }
 
-    // One located error for a value that is not finite or too large to square; true when it was added.
-    private static bool OutOfRange(double value, Table table, int row, string field, string what, List<Diagnostic> errors)
+    // One located error for a value that is not finite or beyond the magnitude limit; true when it was added.
+    private static bool OutOfRange(double value, Table table, int row, string field, string what, List<Diagnostic> errors, double limit = MagnitudeLimit)
     {
         if (!double.IsFinite(value))
         {
@@ -360,10 +379,10 @@ public static class DesignBuilder
             return true;
         }
 
-        if (Math.Abs(value) > MagnitudeLimit)
+        if (Math.Abs(value) > limit)
         {
             errors.Add(new Diagnostic(table.ErrorPath, table.Lines[row], null, field,
-                $"{what} is {value:G6} on this row, beyond ±{MagnitudeLimit:G1}, where squares and sums of squares overflow; rescale it (other units, or divide it in the expression)"));
+                $"{what} is {value:G6} on this row, beyond ±{limit:G1}, the largest magnitude a fit takes{(limit == MagnitudeLimit ? " (the solvers lose accuracy or refuse the model past it)" : " (squares and sums of squares overflow)")}; rescale it (other units, or divide it in the expression)"));
             return true;
         }
 

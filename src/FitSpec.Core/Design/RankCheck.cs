@@ -38,7 +38,7 @@ public static class RankCheck
         var m = n + penaltyRows.Count;
         if (m < p)
         {
-            return [new Diagnostic(spec.File, spec.Model.Pos.Line, spec.Model.Pos.Column, "model.terms", $"{n} rows cannot determine {p} coefficients; add data, remove terms or add an l2 penalty")];
+            return [TooFewRows(spec, n, p)];
         }
 
         // Unit-length data columns, then each penalty row at unit length in those scaled coordinates.
@@ -99,6 +99,14 @@ public static class RankCheck
         }
 
         return errors;
+    }
+
+    /// <summary>The error for fewer rows (data plus penalty rows) than coefficients, at `model.terms`.</summary>
+    public static Diagnostic TooFewRows(FitSpecDocument spec, int rows, int coefficients)
+    {
+        ArgumentNullException.ThrowIfNull(spec);
+        var at = TermsKeyPosition.Of(spec);
+        return new Diagnostic(at.File, at.Line, at.Column, "model.terms", $"{rows} rows cannot determine {coefficients} coefficients; add data, remove terms or add an l2 penalty");
     }
 
     /// <summary>

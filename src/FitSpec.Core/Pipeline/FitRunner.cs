@@ -73,7 +73,7 @@ public static class FitRunner
         Table? table = null;
         try
         {
-            var acceptErrors = Acceptance.Validate(spec.Report.Accept).ToList();
+            var acceptErrors = Acceptance.Validate(spec.Report.Accept).Concat(TemplateFolderCheck.Check(spec, ref document)).ToList();
             if (acceptErrors.Count > 0)
             {
                 throw new FitSpecException(acceptErrors);

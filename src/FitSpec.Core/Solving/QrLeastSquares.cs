@@ -30,7 +30,7 @@ internal sealed class QrLeastSquares : IFitSolver
         var p = design.P;
         if (m < p)
         {
-            throw new FitSpecException(new Diagnostic(fit.Spec.File, fit.Spec.Model.Pos.Line, fit.Spec.Model.Pos.Column, "model.terms", $"{n} rows cannot determine {p} coefficients; add data, remove terms or add an l2 penalty"));
+            throw new FitSpecException(FitSpec.Design.RankCheck.TooFewRows(fit.Spec, n, p));
         }
 
         var sqrtW = new double[n];

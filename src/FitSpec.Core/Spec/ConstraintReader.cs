@@ -100,7 +100,7 @@ internal static class ConstraintReader
                     SpecText? input = null;
                     if (!e.TryGetValue("in", out var inNode))
                     {
-                        f.Error(map, "constraints.in", $"a {kind.Value} constraint needs 'in:' (the input it is {kind.Value} in)");
+                        f.Error(map, "constraints.in", $"{("aeiou".Contains(kind.Value[0], StringComparison.Ordinal) ? "an" : "a")} {kind.Value} constraint needs 'in:' (the input it is {kind.Value} in)");
                     }
                     else
                     {

@@ -32,20 +32,8 @@ internal static class ClusterCommand
             new Option<string>("--tool") { Description = "Command that runs FitSpec on a worker (default: fitspec, found on PATH)", DefaultValueFactory = _ => "fitspec" },
             new Option<int>("--jobs") { Description = "Fits each shard runs in parallel (CPUs asked per task)", DefaultValueFactory = _ => 1 },
             new Option<string>("--name") { Description = "Name prefix of the jobs", DefaultValueFactory = _ => "fitspec" });
-        common.Tasks.Validators.Add(r =>
-        {
-            if (r.GetValueOrDefault<int>() < 1)
-            {
-                r.AddError("--tasks must be at least 1");
-            }
-        });
-        common.Jobs.Validators.Add(r =>
-        {
-            if (r.GetValueOrDefault<int>() < 1)
-            {
-                r.AddError("--jobs must be at least 1");
-            }
-        });
+        AtLeastOne(common.Tasks);
+        AtLeastOne(common.Jobs);
         command.Arguments.Add(common.Specs);
         foreach (var option in new Option[] { common.Out, common.Tasks, common.Tool, common.Jobs, common.Name })
         {
@@ -53,6 +41,18 @@ internal static class ClusterCommand
         }
 
         return common;
+    }
+
+    /// <summary>A count option that must be 1 or more (the error names the option).</summary>
+    public static void AtLeastOne(Option<int> option)
+    {
+        option.Validators.Add(r =>
+        {
+            if (r.GetValueOrDefault<int>() < 1)
+            {
+                r.AddError($"{option.Name} must be at least 1");
+            }
+        });
     }
 
     private static ClusterJob Job(ParseResult parse, CommonOptions o) => new(

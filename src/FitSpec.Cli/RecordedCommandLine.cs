@@ -1,4 +1,4 @@
-using System.Text;
+using FitSpec.Cluster;
 
 namespace FitSpec.Cli;
 
@@ -39,26 +39,9 @@ internal static class RecordedCommandLine
                 continue;
             }
 
-            kept.Add(Quote(arg));
+            kept.Add(ShellWords.Quote(arg)); // quoted for a POSIX shell, so the line can be pasted back
         }
 
         return string.Join(' ', kept);
-    }
-
-    // Quoted for a POSIX shell when needed, so the recorded line can be pasted back (patterns stay unexpanded).
-    private static string Quote(string arg)
-    {
-        if (arg.Length > 0 && arg.All(c => char.IsAsciiLetterOrDigit(c) || "-_./:=,@%+".Contains(c, StringComparison.Ordinal)))
-        {
-            return arg;
-        }
-
-        var sb = new StringBuilder("'");
-        foreach (var c in arg)
-        {
-            sb.Append(c == '\'' ? "'\\''" : c.ToString());
-        }
-
-        return sb.Append('\'').ToString();
     }
 }

@@ -23,13 +23,7 @@ internal static class SolveCommand
         var stamp = new Option<bool>("--stamp") { Description = "Record wall-clock facts (time of the run, solve seconds) in the outputs; files then differ run to run" };
         var outside = OutsidePathsOption();
         var shard = new Option<string?>("--shard") { Description = "Solve only shard I of N of the batch (I/N, 0-based; 'auto' or 'auto/N' takes it from a Slurm array task or a Kubernetes Indexed Job); 'fitspec merge OUT' then writes the index pages" };
-        jobs.Validators.Add(result =>
-        {
-            if (result.GetValueOrDefault<int>() < 1)
-            {
-                result.AddError("--jobs must be at least 1");
-            }
-        });
+        ClusterCommand.AtLeastOne(jobs);
 
         var command = new Command("solve", "Solve fit specs and write verified results, reports and the run's index pages") { specs, outDir, formats, jobs, force, stamp, outside, shard };
         command.SetAction(parse =>

@@ -1,5 +1,3 @@
-using FitSpec.Pipeline.Batch;
-
 namespace FitSpec.Results;
 
 /// <summary>
@@ -10,7 +8,7 @@ namespace FitSpec.Results;
 /// loses at most the newest files, each old or new, not torn.
 /// A failure is thrown as a <see cref="FileWriteException"/> naming the final path, never the temp one.
 /// </summary>
-public static class AtomicFile
+public static partial class AtomicFile
 {
     public static void Write(string path, string contents) => WriteAll([(path, contents)]);
 
@@ -53,6 +51,17 @@ public static class AtomicFile
         var folder = Path.GetDirectoryName(Path.GetFullPath(path))!;
         return Path.Combine(folder, $".{Path.GetFileName(path)}.{Environment.ProcessId}.{Guid.NewGuid():N}.tmp");
     }
+
+    /// <summary>The writing process's id when <paramref name="fileName"/> is a temp name of <see cref="TempPath"/>'s form.</summary>
+    public static int? TempWriter(string fileName)
+    {
+        ArgumentNullException.ThrowIfNull(fileName);
+        var match = TempName().Match(fileName);
+        return match.Success && int.TryParse(match.Groups["pid"].Value, System.Globalization.NumberStyles.None, System.Globalization.CultureInfo.InvariantCulture, out var pid) ? pid : null;
+    }
+
+    [System.Text.RegularExpressions.GeneratedRegex(@"^\.(?<final>.+)\.(?<pid>\d+)\.[0-9a-f]{32}\.tmp$", System.Text.RegularExpressions.RegexOptions.CultureInvariant)]
+    private static partial System.Text.RegularExpressions.Regex TempName();
 
     private static void WriteTemp(string path, string temp, string contents)
     {

@@ -100,7 +100,7 @@ public static partial class OutFolder
         return name.StartsWith('.') && name.EndsWith(".tmp", StringComparison.Ordinal);
     }
 
-    /// <summary>".fit03.html.4711.0123456789abcdef0123456789abcdef.tmp".</summary>
+    /// <summary>A temp name as the atomic writer gives it, e.g. ".fit03.html.4711.0123456789abcdef0123456789abcdef.tmp" (source: the product's own naming in src/FitSpec.Core/Results/AtomicFile.cs; an illustration, not a check value).</summary>
     [GeneratedRegex(@"^\.(?<final>.+)\.(?<pid>\d+)\.[0-9a-f]{32}\.tmp$")]
     private static partial Regex TempName();
 }

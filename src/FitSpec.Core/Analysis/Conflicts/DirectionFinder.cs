@@ -45,11 +45,7 @@ public static class DirectionFinder
             start[j + 1] = index.Count;
         }
 
-        using var highs = new HighsSolver();
-        highs.SetOption("output_flag", false);
-        highs.SetOption("time_limit", seconds);
-        highs.SetOption("threads", 1);
-        highs.PassModel(new HighsModel(n, rowLower.Count, 0, program.Cost, lower, upper, [.. rowLower], [.. rowUpper], start, [.. index], [.. values], null, null, null, null));
+        using var highs = FeasibilityProgram.Open(new HighsModel(n, rowLower.Count, 0, program.Cost, lower, upper, [.. rowLower], [.. rowUpper], start, [.. index], [.. values], null, null, null, null), seconds);
         var run = highs.Run();
         if (run.ModelStatus != HighsModelStatus.Optimal || !(run.ObjectiveValue < -1e-9))
         {

@@ -81,13 +81,16 @@ internal sealed class FeasibilityProgram
         return highs.GetIis();
     }
 
-    private static HighsSolver Open(FitProgram program, double seconds)
+    private static HighsSolver Open(FitProgram program, double seconds) => Open(HighsModels.From(program), seconds);
+
+    /// <summary>A quiet, single-threaded, time-limited HiGHS holding <paramref name="model"/> (the diagnoses' own solves).</summary>
+    internal static HighsSolver Open(HighsModel model, double seconds)
     {
         var highs = new HighsSolver();
         highs.SetOption("output_flag", false);
         highs.SetOption("time_limit", seconds);
         highs.SetOption("threads", 1);
-        highs.PassModel(HighsModels.From(program));
+        highs.PassModel(model);
         return highs;
     }
 }

@@ -1,3 +1,5 @@
+using FitSpec.Results;
+
 namespace FitSpec.Pipeline.Batch;
 
 /// <summary>
@@ -13,7 +15,7 @@ public static class OutFolderProbe
     {
         ArgumentNullException.ThrowIfNull(outDir);
         // Named as the atomic writer names temps, so a probe a killed run left is swept like them.
-        var probe = Path.Combine(outDir, $".fitspec-probe.{Environment.ProcessId}.{Guid.NewGuid():N}.tmp");
+        var probe = AtomicFile.TempPath(Path.Combine(outDir, "fitspec-probe"));
         try
         {
             Directory.CreateDirectory(outDir);

@@ -1,5 +1,4 @@
-using System.Globalization;
-using System.Text.RegularExpressions;
+using FitSpec.Results;
 
 namespace FitSpec.Pipeline.Batch;
 
@@ -8,7 +7,7 @@ namespace FitSpec.Pipeline.Batch;
 /// ".NAME.PID.32hex.tmp" by the atomic writer; it is stale when process PID is gone, or when it is over a day
 /// old (a PID reused since, or a process in another PID namespace). Temps of live writers are left alone.
 /// </summary>
-public static partial class StaleTemps
+public static class StaleTemps
 {
     /// <summary>A temp is taken as abandoned after this long whatever its PID says.</summary>
     public static readonly TimeSpan MaxAge = TimeSpan.FromHours(24);
@@ -46,8 +45,7 @@ public static partial class StaleTemps
 
     private static bool IsStale(string file)
     {
-        var match = TempName().Match(Path.GetFileName(file));
-        if (!match.Success || !int.TryParse(match.Groups["pid"].Value, NumberStyles.None, CultureInfo.InvariantCulture, out var pid))
+        if (AtomicFile.TempWriter(Path.GetFileName(file)) is not { } pid)
         {
             return false;
         }
@@ -73,7 +71,4 @@ public static partial class StaleTemps
             return false;
         }
     }
-
-    [GeneratedRegex(@"^\.(?<final>.+)\.(?<pid>\d+)\.[0-9a-f]{32}\.tmp$", RegexOptions.CultureInvariant)]
-    private static partial Regex TempName();
 }

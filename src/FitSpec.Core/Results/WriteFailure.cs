@@ -1,4 +1,4 @@
-namespace FitSpec.Pipeline.Batch;
+namespace FitSpec.Results;
 
 /// <summary>
 /// Turns a failed write into one plain line: the path that could not be written, why in everyday words

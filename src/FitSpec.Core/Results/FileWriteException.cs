@@ -1,4 +1,4 @@
-namespace FitSpec.Pipeline.Batch;
+namespace FitSpec.Results;
 
 /// <summary>A file that could not be written; Message is "PATH: REASON; ADVICE" (see <see cref="WriteFailure"/>).</summary>
 public sealed class FileWriteException : IOException
